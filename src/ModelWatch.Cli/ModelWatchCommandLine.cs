@@ -1,0 +1,42 @@
+using System.CommandLine;
+using ModelWatch.Cli.Commands;
+
+namespace ModelWatch.Cli;
+
+/// <summary>Builds the command tree and maps parse errors and failures to the documented exit codes.</summary>
+public static class ModelWatchCommandLine
+{
+    /// <summary>Builds the root command.</summary>
+    public static RootCommand CreateRoot()
+    {
+        var root = new RootCommand("ModelWatch: watches deployed linear regression models for drift, collinearity, residual shift and error growth");
+        root.Subcommands.Add(FitCommand.Create());
+        return root;
+    }
+
+    /// <summary>Parses and runs a command line, writing to the given streams; returns the exit code.</summary>
+    public static async Task<int> InvokeAsync(string[] args, TextWriter output, TextWriter error, CancellationToken cancellationToken = default)
+    {
+        ParseResult parse = CreateRoot().Parse(args);
+        var configuration = new InvocationConfiguration { Output = output, Error = error };
+        if (parse.Errors.Count > 0)
+        {
+            foreach (var parseError in parse.Errors)
+            {
+                error.WriteLine($"modelwatch: {parseError.Message}");
+            }
+
+            error.WriteLine("Run 'modelwatch --help' for usage.");
+            return ExitCodes.Usage;
+        }
+
+        try
+        {
+            return await parse.InvokeAsync(configuration, cancellationToken);
+        }
+        catch (OperationCanceledException)
+        {
+            return ExitCodes.RuntimeError;
+        }
+    }
+}

@@ -1,0 +1,26 @@
+using System.Text.Json;
+
+namespace ModelWatch.Cli.Output;
+
+/// <summary>Writes doubles so that they round-trip exactly, and non-finite values as JSON null.</summary>
+internal static class JsonNumbers
+{
+    public static void Write(Utf8JsonWriter writer, string name, double? value)
+    {
+        writer.WritePropertyName(name);
+        Write(writer, value);
+    }
+
+    public static void Write(Utf8JsonWriter writer, double? value)
+    {
+        if (value is { } v && double.IsFinite(v))
+        {
+            // Utf8JsonWriter prints the shortest string that parses back to the same double.
+            writer.WriteNumberValue(v);
+        }
+        else
+        {
+            writer.WriteNullValue();
+        }
+    }
+}

@@ -1,0 +1,3 @@
+using ModelWatch.Cli;
+
+return await ModelWatchCommandLine.InvokeAsync(args, Console.Out, Console.Error);
