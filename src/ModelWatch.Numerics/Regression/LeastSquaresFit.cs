@@ -27,10 +27,11 @@ public static class LeastSquaresFit
         int rank = kept.Length;
 
         // With dropped columns, refactor [X_kept | y] from T itself: its R factor is the QR of T's kept columns.
-        AugmentedFactor reduced = rank == p ? factor : Reduce(factor, kept);
-        double[,] rk = Block(reduced, Enumerable.Range(0, rank).ToArray());
-        double[] c = Enumerable.Range(0, rank).Select(i => reduced[i, rank]).ToArray();
-        double rss = reduced.ResidualSumOfSquares;
+        // With nothing estimable (no rows at all), every residual is the outcome itself.
+        AugmentedFactor? reduced = rank == p ? factor : rank > 0 ? Reduce(factor, kept) : null;
+        double[,] rk = reduced is null ? new double[0, 0] : Block(reduced, Enumerable.Range(0, rank).ToArray());
+        double[] c = Enumerable.Range(0, rank).Select(i => reduced![i, rank]).ToArray();
+        double rss = reduced?.ResidualSumOfSquares ?? Enumerable.Range(0, p + 1).Sum(i => factor[i, p] * factor[i, p]);
         long df = n - rank;
         double s2 = df > 0 ? rss / df : double.NaN;
 
