@@ -1,0 +1,32 @@
+namespace ModelWatch.Daemon.Alerts;
+
+/// <summary>One alert transition, as published to the logging pipeline and to notification targets.</summary>
+/// <param name="AlertId">The stored alert's id.</param>
+/// <param name="Transition">What happened: <c>opened</c>, <c>escalated</c>, <c>acknowledged</c>, <c>resolved</c>, <c>reopened</c>.</param>
+/// <param name="Model">Model key.</param>
+/// <param name="Check">Check name.</param>
+/// <param name="Subject">Coefficient or feature, or null for a model-wide finding.</param>
+/// <param name="Severity"><c>warning</c> or <c>critical</c>.</param>
+/// <param name="State">State after the transition: <c>open</c>, <c>acknowledged</c>, <c>resolved</c>.</param>
+/// <param name="Statistic">Name of the statistic that decided it.</param>
+/// <param name="Value">The statistic's value.</param>
+/// <param name="Threshold">The threshold it was compared with.</param>
+/// <param name="Explanation">The one-line explanation of the finding.</param>
+/// <param name="At">When the transition happened.</param>
+public sealed record AlertEvent(
+    long AlertId,
+    string Transition,
+    string Model,
+    string Check,
+    string? Subject,
+    string Severity,
+    string State,
+    string Statistic,
+    double? Value,
+    double? Threshold,
+    string Explanation,
+    DateTimeOffset At)
+{
+    /// <summary>The stable OpenTelemetry event name of this transition, e.g. <c>modelwatch.alert.opened</c>.</summary>
+    public string EventName => "modelwatch.alert." + Transition;
+}

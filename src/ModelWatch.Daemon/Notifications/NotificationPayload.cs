@@ -1,0 +1,60 @@
+using System.Text.Json;
+using ModelWatch.Daemon.Alerts;
+
+namespace ModelWatch.Daemon.Notifications;
+
+/// <summary>
+/// The JSON body ModelWatch POSTs to a webhook target. Our own format, versioned by <c>schema</c>:
+/// <code>
+/// { "schema": 1, "event": "modelwatch.alert.opened", "sent_at": "...Z",
+///   "alert": { "id", "model", "check", "subject", "severity", "state", "statistic", "value", "threshold",
+///              "explanation", "at" } }
+/// </code>
+/// </summary>
+public static class NotificationPayload
+{
+    /// <summary>The payload schema version.</summary>
+    public const int Schema = 1;
+
+    /// <summary>Serialises one alert event.</summary>
+    public static byte[] Create(AlertEvent alert, DateTimeOffset sentAt)
+    {
+        ArgumentNullException.ThrowIfNull(alert);
+        using var buffer = new MemoryStream();
+        using (var writer = new Utf8JsonWriter(buffer))
+        {
+            writer.WriteStartObject();
+            writer.WriteNumber("schema", Schema);
+            writer.WriteString("event", alert.EventName);
+            writer.WriteString("sent_at", sentAt.ToUniversalTime().ToString("yyyy-MM-dd'T'HH:mm:ss.fff'Z'", System.Globalization.CultureInfo.InvariantCulture));
+            writer.WriteStartObject("alert");
+            writer.WriteNumber("id", alert.AlertId);
+            writer.WriteString("model", alert.Model);
+            writer.WriteString("check", alert.Check);
+            writer.WriteString("subject", alert.Subject);
+            writer.WriteString("severity", alert.Severity);
+            writer.WriteString("state", alert.State);
+            writer.WriteString("statistic", alert.Statistic);
+            WriteNumber(writer, "value", alert.Value);
+            WriteNumber(writer, "threshold", alert.Threshold);
+            writer.WriteString("explanation", alert.Explanation);
+            writer.WriteString("at", alert.At.ToUniversalTime().ToString("yyyy-MM-dd'T'HH:mm:ss.fff'Z'", System.Globalization.CultureInfo.InvariantCulture));
+            writer.WriteEndObject();
+            writer.WriteEndObject();
+        }
+
+        return buffer.ToArray();
+    }
+
+    private static void WriteNumber(Utf8JsonWriter writer, string name, double? value)
+    {
+        if (value is { } v && double.IsFinite(v))
+        {
+            writer.WriteNumber(name, v);
+        }
+        else
+        {
+            writer.WriteNull(name);
+        }
+    }
+}

@@ -1,0 +1,93 @@
+using System.Text.Json;
+using Microsoft.Extensions.Time.Testing;
+using ModelWatch.Daemon.Alerts;
+using ModelWatch.Daemon.Notifications;
+using ModelWatch.Daemon.Options;
+
+namespace ModelWatch.Daemon.Tests.Notifications;
+
+public sealed class WebhookSenderTests
+{
+    private const string Secret = "a-shared-secret-of-some-length";
+
+    private static readonly AlertEvent Opened = new(
+        42, "opened", "courier-eta", "coefficients", "route_km", "critical", "open", "wald_chi2", 61.3, 24.1,
+        "coefficient of route_km moved from 1.92 to 2.41: 6.3 standard errors", new DateTimeOffset(2026, 11, 30, 6, 0, 0, TimeSpan.Zero));
+
+    [Fact]
+    public async Task Delivers_a_signed_payload_that_the_receiver_can_verify()
+    {
+        using var receiver = new LoopbackReceiver(200);
+        using var http = new HttpClient();
+        var sender = new WebhookSender(http, TimeProvider.System);
+        byte[] body = NotificationPayload.Create(Opened, Opened.At);
+
+        IReadOnlyList<DeliveryAttempt> attempts = await sender.DeliverAsync("pager", Target(receiver.Url), Opened.AlertId, body, CancellationToken.None);
+
+        DeliveryAttempt attempt = Assert.Single(attempts);
+        Assert.True(attempt.Succeeded);
+        Assert.Equal(200, attempt.StatusCode);
+        Assert.True(receiver.Received.TryDequeue(out var received));
+        Assert.True(WebhookSignature.Verify(received.Body, Secret, received.Signature));
+        Assert.False(WebhookSignature.Verify(received.Body, "another-secret-entirely", received.Signature));
+        using var json = JsonDocument.Parse(received.Body);
+        Assert.Equal("modelwatch.alert.opened", json.RootElement.GetProperty("event").GetString());
+        Assert.Equal("route_km", json.RootElement.GetProperty("alert").GetProperty("subject").GetString());
+        Assert.Equal(61.3, json.RootElement.GetProperty("alert").GetProperty("value").GetDouble());
+    }
+
+    [Fact]
+    public async Task Retries_after_a_server_error_with_back_off_on_the_injected_clock()
+    {
+        using var receiver = new LoopbackReceiver(500, 503, 200);
+        using var http = new HttpClient();
+        var time = new FakeTimeProvider(new DateTimeOffset(2026, 12, 1, 0, 0, 0, TimeSpan.Zero));
+        var sender = new WebhookSender(http, time);
+        byte[] body = NotificationPayload.Create(Opened, Opened.At);
+
+        Task<IReadOnlyList<DeliveryAttempt>> delivery = sender.DeliverAsync("pager", Target(receiver.Url), Opened.AlertId, body, CancellationToken.None);
+        for (int step = 0; step < 10_000 && !delivery.IsCompleted; step++)
+        {
+            // The sender waits on the fake clock between attempts; move it on until all attempts are made.
+            time.Advance(TimeSpan.FromSeconds(1));
+            await Task.Yield();
+        }
+
+        IReadOnlyList<DeliveryAttempt> attempts = await delivery;
+        Assert.Equal([500, 503, 200], attempts.Select(a => a.StatusCode!.Value));
+        Assert.Equal([false, false, true], attempts.Select(a => a.Succeeded));
+        Assert.True(attempts[1].At > attempts[0].At, "the second attempt waited for the back-off");
+        Assert.Equal(["1", "2", "3"], receiver.Received.Select(r => r.Attempt!));
+    }
+
+    [Fact]
+    public async Task A_client_error_is_final()
+    {
+        using var receiver = new LoopbackReceiver(404);
+        using var http = new HttpClient();
+        var sender = new WebhookSender(http, TimeProvider.System);
+
+        IReadOnlyList<DeliveryAttempt> attempts = await sender.DeliverAsync("pager", Target(receiver.Url), 1, [1, 2, 3], CancellationToken.None);
+
+        DeliveryAttempt attempt = Assert.Single(attempts);
+        Assert.Contains("404", attempt.Error, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void Signature_is_hmac_sha256_of_the_body()
+    {
+        // RFC 4231 test case 2: key "Jefe", data "what do ya want for nothing?".
+        string header = WebhookSignature.Sign("what do ya want for nothing?"u8, "Jefe");
+
+        Assert.Equal("sha256=5bdcc146bf60754e6a042426089575c75a003f089d2739839dec58b964ec3843", header);
+    }
+
+    private static NotificationTargetOptions Target(string url) => new()
+    {
+        Url = url,
+        Secret = Secret,
+        MaxAttempts = 4,
+        InitialBackoff = TimeSpan.FromSeconds(2),
+        Timeout = TimeSpan.FromSeconds(10),
+    };
+}
