@@ -1,0 +1,62 @@
+using System.Globalization;
+using ModelWatch.Checks.Findings;
+
+namespace ModelWatch.Checks.Evaluation;
+
+/// <summary>Number formatting and finding scaffolding shared by the checks (invariant culture throughout).</summary>
+internal static class FindingText
+{
+    public static string Num(double v) => double.IsFinite(v) ? v.ToString("G3", CultureInfo.InvariantCulture) : "n/a";
+
+    public static string Pct(double share) => double.IsFinite(share) ? (100.0 * share).ToString("F0", CultureInfo.InvariantCulture) + " %" : "n/a";
+
+    public static string P(double p) =>
+        double.IsNaN(p) ? "p n/a"
+        : p < 1e-9 ? "p < 1e-9"
+        : p < 1e-4 ? "p = " + p.ToString("0.0e0", CultureInfo.InvariantCulture)
+        : "p = " + p.ToString("G2", CultureInfo.InvariantCulture);
+
+    public static double? Finite(double v) => double.IsFinite(v) ? v : null;
+
+    public static Dictionary<string, double> Details(params (string Name, double Value)[] values)
+    {
+        var d = new Dictionary<string, double>(StringComparer.Ordinal);
+        foreach ((string name, double value) in values)
+        {
+            if (double.IsFinite(value))
+            {
+                d[name] = value;
+            }
+        }
+
+        return d;
+    }
+
+    /// <summary>Critical when significant within the budget and practical; warning when significant at the warning level.</summary>
+    public static Severity Grade(double p, double alpha, double warningAlpha, bool practical)
+    {
+        if (double.IsNaN(p))
+        {
+            return Severity.Ok;
+        }
+
+        if (p < alpha && practical)
+        {
+            return Severity.Critical;
+        }
+
+        return p < warningAlpha || p < alpha ? Severity.Warning : Severity.Ok;
+    }
+
+    public static Finding Skip(string check, string statistic, string reason, string explanation, string? subject = null) => new()
+    {
+        Check = check,
+        Subject = subject,
+        Statistic = statistic,
+        Skipped = true,
+        SkipReason = reason,
+        Explanation = explanation,
+    };
+
+    public static string Fmt(FormattableString text) => text.ToString(CultureInfo.InvariantCulture);
+}

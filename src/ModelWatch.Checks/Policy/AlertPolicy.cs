@@ -1,0 +1,82 @@
+using System.Globalization;
+using ModelWatch.Checks.Findings;
+
+namespace ModelWatch.Checks.Policy;
+
+/// <summary>
+/// Turns successive runs' findings into alert decisions per (check, subject). Pure. Per-window tests must persist
+/// (critical in <see cref="CheckThresholds.PersistenceRequired"/> of the last <see cref="CheckThresholds.PersistenceWindows"/>
+/// evaluated windows; methods.md §3.5.4); sequential and hard findings (CUSUM crossing, lost rank, dead feed, served
+/// mismatch) open at once. An open alert resolves after <see cref="CheckThresholds.ResolveAfterOkWindows"/> evaluated
+/// runs in a row with nothing above ok (hysteresis); a warning keeps it open. Only critical evidence opens alerts:
+/// warnings are findings, not pages (methods.md §3.5.9). Skipped findings leave the state untouched.
+/// </summary>
+public static class AlertPolicy
+{
+    /// <summary>Decides for every (check, subject) that has findings this run or a persisted state.</summary>
+    public static IReadOnlyList<AlertDecision> Evaluate(
+        IEnumerable<CheckResult> results,
+        IEnumerable<AlertPolicyState> previous,
+        string baselineFingerprint,
+        CheckThresholds thresholds)
+    {
+        ArgumentNullException.ThrowIfNull(results);
+        ArgumentNullException.ThrowIfNull(previous);
+        ArgumentNullException.ThrowIfNull(thresholds);
+        var states = previous.ToDictionary(s => (s.Check, s.Subject ?? string.Empty));
+        var byKey = results.SelectMany(r => r.Findings).GroupBy(f => (f.Check, f.Subject ?? string.Empty)).ToDictionary(g => g.Key, g => g.ToList());
+        var decisions = new List<AlertDecision>();
+        foreach (var key in states.Keys.Union(byKey.Keys).OrderBy(k => k.Check, StringComparer.Ordinal).ThenBy(k => k.Item2, StringComparer.Ordinal))
+        {
+            AlertPolicyState state = states.TryGetValue(key, out AlertPolicyState? s) ? s : new AlertPolicyState { Check = key.Check, Subject = key.Item2.Length == 0 ? null : key.Item2 };
+            if (state.BaselineFingerprint != baselineFingerprint)
+            {
+                state = state with { BaselineFingerprint = baselineFingerprint, Recent = [] };
+            }
+
+            List<Finding> findings = byKey.TryGetValue(key, out List<Finding>? f) ? f.Where(x => !x.Skipped).ToList() : [];
+            decisions.Add(Decide(state, findings, thresholds));
+        }
+
+        return decisions;
+    }
+
+    private static AlertDecision Decide(AlertPolicyState state, List<Finding> findings, CheckThresholds t)
+    {
+        if (findings.Count == 0)
+        {
+            return new AlertDecision { Check = state.Check, Subject = state.Subject, Action = AlertAction.None, Reason = "no evaluated finding this run", State = state };
+        }
+
+        Finding worst = findings.OrderByDescending(x => x.Severity).First();
+        Severity immediate = findings.Where(x => !x.RequiresPersistence).Select(x => x.Severity).DefaultIfEmpty(Severity.Ok).Max();
+        var persistent = findings.Where(x => x.RequiresPersistence).ToList();
+        IReadOnlyList<Severity> recent = state.Recent;
+        if (persistent.Count > 0)
+        {
+            recent = [.. state.Recent.Skip(Math.Max(0, state.Recent.Count - t.PersistenceWindows + 1)), persistent.Max(x => x.Severity)];
+        }
+
+        int criticalCount = persistent.Count > 0 ? recent.Count(x => x == Severity.Critical) : 0;
+        bool persisted = criticalCount >= t.PersistenceRequired;
+        bool critical = immediate == Severity.Critical || persisted;
+        string evidence = string.Create(CultureInfo.InvariantCulture, $"{criticalCount} of the last {recent.Count} windows critical");
+        AlertPolicyState next = state with { Recent = recent };
+        if (!state.Open)
+        {
+            return critical
+                ? new AlertDecision { Check = state.Check, Subject = state.Subject, Action = AlertAction.Open, Evidence = worst, Reason = immediate == Severity.Critical ? "critical evidence that needs no repetition" : evidence, State = next with { Open = true, ConsecutiveOk = 0 } }
+                : new AlertDecision { Check = state.Check, Subject = state.Subject, Action = AlertAction.None, Evidence = worst, Reason = worst.Severity == Severity.Critical ? evidence + "; waiting for persistence" : "nothing critical", State = next };
+        }
+
+        if (worst.Severity == Severity.Critical)
+        {
+            return new AlertDecision { Check = state.Check, Subject = state.Subject, Action = AlertAction.Raise, Evidence = worst, Reason = "still critical", State = next with { ConsecutiveOk = 0 } };
+        }
+
+        int ok = worst.Severity == Severity.Ok ? state.ConsecutiveOk + 1 : 0;
+        return ok >= t.ResolveAfterOkWindows
+            ? new AlertDecision { Check = state.Check, Subject = state.Subject, Action = AlertAction.Resolve, Evidence = worst, Reason = string.Create(CultureInfo.InvariantCulture, $"{ok} evaluated runs in a row with nothing above ok"), State = next with { Open = false, ConsecutiveOk = 0 } }
+            : new AlertDecision { Check = state.Check, Subject = state.Subject, Action = AlertAction.None, Evidence = worst, Reason = worst.Severity == Severity.Warning ? "warning keeps the alert open" : string.Create(CultureInfo.InvariantCulture, $"ok for {ok} of {t.ResolveAfterOkWindows} runs needed to resolve"), State = next with { ConsecutiveOk = ok } };
+    }
+}

@@ -1,0 +1,34 @@
+using ModelWatch.Numerics.Statistics;
+using Xunit;
+
+namespace ModelWatch.Numerics.Tests.Statistics;
+
+public sealed class DurbinWatsonBoundsTests
+{
+    [Theory]
+    [InlineData(15, 1, 0.05, 1.077, 1.361)]
+    [InlineData(20, 1, 0.05, 1.201, 1.411)]
+    [InlineData(30, 1, 0.05, 1.352, 1.489)]
+    [InlineData(50, 1, 0.05, 1.503, 1.585)]
+    [InlineData(100, 1, 0.05, 1.654, 1.694)]
+    [InlineData(20, 2, 0.05, 1.100, 1.537)]
+    [InlineData(30, 3, 0.05, 1.214, 1.650)]
+    [InlineData(50, 5, 0.05, 1.335, 1.771)]
+    [InlineData(100, 5, 0.05, 1.571, 1.780)]
+    [InlineData(50, 1, 0.01, 1.324, 1.403)]
+    public void Bounds_match_the_tables(int n, int slopes, double alpha, double lower, double upper)
+    {
+        // methods.md §5.6 [C via the Imhof integral; C=M with Savin & White 1977 and the standard tables].
+        (double dl, double du) = DurbinWatsonBounds.CriticalValues(n, slopes, alpha);
+        Assert.Equal(lower, dl, 3);
+        Assert.Equal(upper, du, 3);
+    }
+
+    [Fact]
+    public void Imhof_reproduces_a_chi_square_tail()
+    {
+        // Exact: Q = z₁² + z₂² − 3z₃² > 0 ⇔ χ²₂ > 3z₃², and P(χ²₂ > x) = e^{−x/2}, so
+        // P(Q > 0) = E[e^{−3z²/2}] = (1 + 3)^{−1/2} = 0.5.
+        Assert.Equal(0.5, QuadraticFormDistribution.UpperTailAtZero([1.0, 1.0, -3.0]), 6);
+    }
+}

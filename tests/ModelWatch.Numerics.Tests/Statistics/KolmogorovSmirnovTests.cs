@@ -1,0 +1,64 @@
+using ModelWatch.Numerics.Statistics;
+using Xunit;
+
+namespace ModelWatch.Numerics.Tests.Statistics;
+
+public sealed class KolmogorovSmirnovTests
+{
+    [Fact]
+    public void Small_sample_example_matches_exact_and_asymptotic_reference_values()
+    {
+        // methods.md §8.5 [C]: D = 0.23; exact p = 0.528636 (R ks.test and SciPy ks_2samp agree);
+        // Kolmogorov-limit p = 0.599196 (R's asymptotic, the formula pinned here for large samples).
+        KolmogorovSmirnovResult result = KolmogorovSmirnov.TwoSample(ReferenceData.KsX, ReferenceData.KsY);
+        Assert.True(result.Exact);
+        Assert.Equal(0.23, result.Statistic, 12);
+        Assert.Equal(0.528636, result.PValue, 6);
+        double lambda = Math.Sqrt(25.0 * 20.0 / 45.0) * result.Statistic;
+        Assert.Equal(0.599196, KolmogorovSmirnov.KolmogorovUpperTail(lambda), 6);
+    }
+
+    [Fact]
+    public void Labs_A_and_D_match_the_exact_reference_value()
+    {
+        // methods.md §8.4 [C]: Scholz–Stephens labs A vs D, D = 0.75, exact p = 0.018648.
+        KolmogorovSmirnovResult result = KolmogorovSmirnov.TwoSample(ReferenceData.LabA, ReferenceData.LabD);
+        Assert.Equal(0.75, result.Statistic, 12);
+        Assert.Equal(0.018648, result.PValue, 6);
+    }
+
+    [Theory]
+    [InlineData(0.10, 1.2239)]
+    [InlineData(0.05, 1.3581)]
+    [InlineData(0.01, 1.6276)]
+    [InlineData(0.001, 1.9495)]
+    public void Critical_constants_match_the_table_and_invert_the_limit(double alpha, double c)
+    {
+        // methods.md §5.3 / §8.7 [C]: c(α) = sqrt(−ln(α/2)/2).
+        Assert.Equal(c, KolmogorovSmirnov.CriticalConstant(alpha), 4);
+
+        // The first term of the series dominates, so Q_KS(c(α)) ≈ α (to the next term, 2e^{−8c²}).
+        Assert.Equal(alpha, KolmogorovSmirnov.KolmogorovUpperTail(c), 3);
+    }
+
+    [Fact]
+    public void Large_samples_use_the_kolmogorov_limit()
+    {
+        var random = new Random(3);
+        double[] a = Enumerable.Range(0, 1000).Select(_ => random.NextDouble()).ToArray();
+        double[] b = Enumerable.Range(0, 600).Select(_ => random.NextDouble()).ToArray();
+        KolmogorovSmirnovResult result = KolmogorovSmirnov.TwoSample(a, b);
+        Assert.False(result.Exact);
+        Assert.Equal(KolmogorovSmirnov.KolmogorovUpperTail(Math.Sqrt(600000.0 / 1600.0) * result.Statistic), result.PValue, 14);
+    }
+
+    [Fact]
+    public void Exact_and_limit_agree_closely_for_moderate_samples()
+    {
+        // Both are the same distribution; at n = m = 400 the exact tail sits within 0.01 of the limit.
+        double d = 0.08;
+        double exact = KolmogorovSmirnov.ExactUpperTail(400, 400, d);
+        double limit = KolmogorovSmirnov.KolmogorovUpperTail(Math.Sqrt(200.0) * d);
+        Assert.InRange(exact - limit, -0.01, 0.01);
+    }
+}
