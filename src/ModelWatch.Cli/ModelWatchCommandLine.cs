@@ -11,6 +11,12 @@ public static class ModelWatchCommandLine
     {
         var root = new RootCommand("ModelWatch: watches deployed linear regression models for drift, collinearity, residual shift and error growth");
         root.Subcommands.Add(FitCommand.Create());
+        root.Subcommands.Add(MigrateCommand.Create());
+        root.Subcommands.Add(ModelCommand.Create());
+        root.Subcommands.Add(BaselineCommand.Create());
+        root.Subcommands.Add(DaemonCommand.Create());
+        root.Subcommands.Add(RunsCommand.Create());
+        root.Subcommands.Add(AlertsCommand.Create());
         return root;
     }
 

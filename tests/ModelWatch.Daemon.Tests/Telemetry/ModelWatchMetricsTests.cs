@@ -22,16 +22,16 @@ public sealed class ModelWatchMetricsTests
             .Build();
         var metrics = new ModelWatchMetrics(services.GetRequiredService<System.Diagnostics.Metrics.IMeterFactory>());
 
-        metrics.Update("courier-eta", new ModelGaugeValues(1.31, 12.5, 4.2, 0.08, 1, 0));
-        metrics.Update("bakery-demand", new ModelGaugeValues(0.98, 7.1, 0.6, 0.02, 0, 0));
+        metrics.Update("gauge-courier", new ModelGaugeValues(1.31, 12.5, 4.2, 0.08, 1, 0));
+        metrics.Update("gauge-bakery", new ModelGaugeValues(0.98, 7.1, 0.6, 0.02, 0, 0));
         provider.ForceFlush();
         Assert.Equal(2, Points(exported, TelemetryNames.RmseRatio).Count);
-        Assert.Equal(1.31, Points(exported, TelemetryNames.RmseRatio).Single(p => Model(p) == "courier-eta").GetGaugeLastValueDouble());
+        Assert.Equal(1.31, Points(exported, TelemetryNames.RmseRatio).Single(p => Model(p) == "gauge-courier").GetGaugeLastValueDouble());
 
         exported.Clear();
-        metrics.Forget("bakery-demand");
+        metrics.Forget("gauge-bakery");
         provider.ForceFlush();
-        Assert.Equal(["courier-eta"], Points(exported, TelemetryNames.RmseRatio).Select(Model));
+        Assert.Equal(["gauge-courier"], Points(exported, TelemetryNames.RmseRatio).Select(Model));
         Assert.Equal(2, Points(exported, TelemetryNames.OpenAlerts).Count);
     }
 
@@ -43,19 +43,13 @@ public sealed class ModelWatchMetricsTests
         using MeterProvider provider = Sdk.CreateMeterProviderBuilder().AddMeter(TelemetryNames.Source).AddInMemoryExporter(exported).Build();
         var metrics = new ModelWatchMetrics(services.GetRequiredService<System.Diagnostics.Metrics.IMeterFactory>());
 
-        metrics.RecordRun("courier-eta", "ok", TimeSpan.FromMilliseconds(250), 1200, 3);
-        metrics.RecordRun("courier-eta", "failed", TimeSpan.FromSeconds(2), 0, 0, "57014");
+        metrics.RecordRun("counted-courier", "ok", TimeSpan.FromMilliseconds(250), 1200, 3);
+        metrics.RecordRun("counted-courier", "failed", TimeSpan.FromSeconds(2), 0, 0, "57014");
         provider.ForceFlush();
 
-        Metric runs = exported.Single(m => m.Name == TelemetryNames.Runs);
-        Assert.Equal("{run}", runs.Unit);
-        Metric duration = exported.Single(m => m.Name == TelemetryNames.RunDuration);
-        Assert.Equal("s", duration.Unit);
-        var sums = new List<double>();
-        foreach (ref readonly MetricPoint point in duration.GetMetricPoints())
-        {
-            sums.Add(point.GetHistogramSum());
-        }
+        Assert.Equal("{run}", exported.First(m => m.Name == TelemetryNames.Runs).Unit);
+        Assert.Equal("s", exported.First(m => m.Name == TelemetryNames.RunDuration).Unit);
+        var sums = Points(exported, TelemetryNames.RunDuration).Select(p => p.GetHistogramSum()).ToList();
 
         Assert.Contains(0.25, sums);
         Assert.Contains(2.0, sums);
@@ -70,12 +64,12 @@ public sealed class ModelWatchMetricsTests
         using var pipeline = new AlertEventPipeline(o => o.AddInMemoryExporter(records), ordinary);
         var events = new AlertEventLogger(pipeline.Factory.CreateLogger<AlertEventLogger>());
 
-        events.Publish(new AlertEvent(7, "opened", "courier-eta", "residuals", null, "warning", "open", "bias_t", -4.47, 3.9, "mean residual −95.5", DateTimeOffset.UnixEpoch));
+        events.Publish(new AlertEvent(7, "opened", "gauge-courier", "residuals", null, "warning", "open", "bias_t", -4.47, 3.9, "mean residual −95.5", DateTimeOffset.UnixEpoch));
 
         LogRecord record = Assert.Single(records);
         Assert.Equal("modelwatch.alert.opened", record.EventId.Name);
         var attributes = record.Attributes!.ToDictionary(a => a.Key, a => a.Value);
-        Assert.Equal("courier-eta", attributes[TelemetryNames.ModelTag]);
+        Assert.Equal("gauge-courier", attributes[TelemetryNames.ModelTag]);
         Assert.Equal("residuals", attributes[TelemetryNames.CheckTag]);
         Assert.Null(attributes[TelemetryNames.SubjectTag]);
         Assert.Equal("bias_t", attributes[TelemetryNames.StatisticTag]);
@@ -83,14 +77,22 @@ public sealed class ModelWatchMetricsTests
         Assert.Equal(3.9, attributes[TelemetryNames.ThresholdTag]);
     }
 
+    /// <summary>
+    /// Points of one instrument for this class's models only: the meter name is a constant, so daemons of other
+    /// test classes running in parallel publish on meters this provider also listens to.
+    /// </summary>
     private static List<MetricPoint> Points(List<Metric> exported, string name)
     {
+        string[] ours = ["gauge-courier", "gauge-bakery", "counted-courier"];
         var points = new List<MetricPoint>();
         foreach (Metric metric in exported.Where(m => m.Name == name))
         {
             foreach (ref readonly MetricPoint point in metric.GetMetricPoints())
             {
-                points.Add(point);
+                if (ours.Contains(Model(point)))
+                {
+                    points.Add(point);
+                }
             }
         }
 

@@ -59,7 +59,8 @@ public sealed class ThrowawayCluster : IAsyncDisposable
     /// <summary>Creates and starts a cluster from the binaries in <paramref name="binDirectory"/>.</summary>
     public static async Task<ThrowawayCluster> StartAsync(string binDirectory, CancellationToken cancellationToken = default)
     {
-        string root = Directory.CreateTempSubdirectory("modelwatch-pg-").FullName;
+        RemoveStaleFolders();
+        string root = Directory.CreateTempSubdirectory(FolderPrefix).FullName;
         var cluster = new ThrowawayCluster(binDirectory, root, FreePort());
         try
         {
@@ -143,7 +144,37 @@ public sealed class ThrowawayCluster : IAsyncDisposable
         }
     }
 
+    private const string FolderPrefix = "modelwatch-pg-";
+
     private static bool IsRoot => Environment.UserName == "root";
+
+    /// <summary>
+    /// Removes folders of earlier clusters whose server is no longer running: a test process that is killed
+    /// before its exit handler finishes leaves its folder behind.
+    /// </summary>
+    private static void RemoveStaleFolders()
+    {
+        foreach (string folder in Directory.GetDirectories(Path.GetTempPath(), FolderPrefix + "*"))
+        {
+            string pidFile = Path.Combine(folder, "data", "postmaster.pid");
+            try
+            {
+                bool running = File.Exists(pidFile)
+                    && int.TryParse(File.ReadLines(pidFile).FirstOrDefault(), System.Globalization.NumberStyles.Integer, System.Globalization.CultureInfo.InvariantCulture, out int pid)
+                    && Directory.Exists($"/proc/{pid}");
+                // The age guard spares a folder another test process is still initialising.
+                bool old = TimeProvider.System.GetUtcNow().UtcDateTime - Directory.GetLastWriteTimeUtc(folder) > TimeSpan.FromMinutes(30);
+                if (!running && old)
+                {
+                    Directory.Delete(folder, recursive: true);
+                }
+            }
+            catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
+            {
+                // Another process may own it; it is only temporary space.
+            }
+        }
+    }
 
     private static int FreePort()
     {

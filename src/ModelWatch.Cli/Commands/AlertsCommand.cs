@@ -1,0 +1,213 @@
+using System.CommandLine;
+using System.Globalization;
+using System.Text.Json;
+using ModelWatch.Cli.Output;
+using ModelWatch.Daemon.Alerts;
+
+namespace ModelWatch.Cli.Commands;
+
+/// <summary>
+/// <c>modelwatch alerts list|show|ack|resolve|silence</c>: triage from the command line. Changes record the actor
+/// (<c>--actor</c>, default the current user) and an optional <c>--note</c>.
+/// </summary>
+internal static class AlertsCommand
+{
+    public static Command Create() => new("alerts", "Alert triage: list, show, acknowledge, resolve, silence")
+    {
+        List(), Show(), Change("ack", "Acknowledge an open alert"), Change("resolve", "Resolve an open or acknowledged alert"), Silence(),
+    };
+
+    private static Command List()
+    {
+        var key = new Argument<string?>("key") { Description = "Only this model's alerts", Arity = ArgumentArity.ZeroOrOne };
+        var state = new Option<string>("--state") { Description = "unresolved (default), open, acknowledged, resolved or all", DefaultValueFactory = _ => "unresolved" };
+        state.AcceptOnlyFromAmong("unresolved", "open", "acknowledged", "resolved", "all");
+        var limit = new Option<int>("--limit") { Description = "Newest alerts to show (default 100)", DefaultValueFactory = _ => 100 };
+        var format = FormatOption();
+        var database = StoreCommandRunner.DatabaseOption();
+        var command = new Command("list", "List alerts, newest first") { key, state, limit, format, database };
+        command.SetAction((parse, cancellationToken) => StoreCommandRunner.RunAsync(parse, "alerts list", database, async (databases, output, ct) =>
+        {
+            string? filter = parse.GetValue(state) is "all" ? null : parse.GetValue(state);
+            IReadOnlyList<AlertView> alerts = await Repository(databases).ListAsync(parse.GetValue(key), filter, Math.Max(1, parse.GetValue(limit)), ct);
+            if (parse.GetValue(format) == OutputFormat.Json)
+            {
+                CliJson.Write(output, writer =>
+                {
+                    writer.WriteStartArray();
+                    foreach (AlertView alert in alerts)
+                    {
+                        WriteAlert(writer, alert, null);
+                    }
+
+                    writer.WriteEndArray();
+                });
+                return ExitCodes.Ok;
+            }
+
+            List<string[]> rows = [["ID", "MODEL", "CHECK", "SUBJECT", "SEVERITY", "STATE", "OPENED", "EXPLANATION"]];
+            rows.AddRange(alerts.Select(a => new[]
+            {
+                a.Id.ToString(CultureInfo.InvariantCulture), a.Model, a.Check, a.Subject ?? "-", a.Severity, a.State, CliJson.Time(a.OpenedAt)!, a.Explanation ?? string.Empty,
+            }));
+            CliJson.WriteTable(output, rows);
+            return ExitCodes.Ok;
+        }, cancellationToken));
+        return command;
+    }
+
+    private static Command Show()
+    {
+        var id = new Argument<long>("id") { Description = "Alert id" };
+        var format = FormatOption();
+        var database = StoreCommandRunner.DatabaseOption();
+        var command = new Command("show", "Show one alert and its history") { id, format, database };
+        command.SetAction((parse, cancellationToken) => StoreCommandRunner.RunAsync(parse, "alerts show", database, async (databases, output, ct) =>
+        {
+            AlertRepository repository = Repository(databases);
+            AlertView? alert = await repository.GetAsync(parse.GetValue(id), ct);
+            if (alert is null)
+            {
+                parse.InvocationConfiguration.Error.WriteLine($"modelwatch alerts show: alert {parse.GetValue(id)} does not exist");
+                return ExitCodes.RuntimeError;
+            }
+
+            IReadOnlyList<AlertHistoryEntry> history = await repository.HistoryAsync(alert.Id, ct);
+            if (parse.GetValue(format) == OutputFormat.Json)
+            {
+                CliJson.Write(output, writer => WriteAlert(writer, alert, history));
+                return ExitCodes.Ok;
+            }
+
+            output.WriteLine($"alert {alert.Id}: {alert.Model} / {alert.Check}{(alert.Subject is null ? string.Empty : " / " + alert.Subject)} — {alert.Severity}, {alert.State}");
+            output.WriteLine($"  {alert.Explanation}");
+            if (alert.Note is not null)
+            {
+                output.WriteLine($"  note: {alert.Note}");
+            }
+
+            foreach (AlertHistoryEntry entry in history)
+            {
+                output.WriteLine($"  {CliJson.Time(entry.At)}  {entry.Transition,-12} {entry.Severity,-8} by {entry.Actor}{(entry.RunId is { } run ? $" (run {run})" : string.Empty)}: {entry.Explanation}");
+            }
+
+            return ExitCodes.Ok;
+        }, cancellationToken));
+        return command;
+    }
+
+    private static Command Change(string verb, string description)
+    {
+        var id = new Argument<long>("id") { Description = "Alert id" };
+        var actor = new Option<string>("--actor") { Description = "Who is acting (default: the current user)", DefaultValueFactory = _ => StoreCommandRunner.Actor };
+        var note = new Option<string?>("--note") { Description = "A note kept with the alert" };
+        var database = StoreCommandRunner.DatabaseOption();
+        var command = new Command(verb, description) { id, actor, note, database };
+        command.SetAction((parse, cancellationToken) => StoreCommandRunner.RunAsync(parse, "alerts " + verb, database, async (databases, output, ct) =>
+        {
+            AlertRepository repository = Repository(databases);
+            long alertId = parse.GetValue(id);
+            string? problem = verb == "ack"
+                ? await repository.AcknowledgeAsync(alertId, parse.GetRequiredValue(actor), parse.GetValue(note), TimeProvider.System.GetUtcNow(), ct)
+                : await repository.ResolveAsync(alertId, parse.GetRequiredValue(actor), parse.GetValue(note), TimeProvider.System.GetUtcNow(), ct);
+            if (problem is not null)
+            {
+                parse.InvocationConfiguration.Error.WriteLine($"modelwatch alerts {verb}: {problem}");
+                return ExitCodes.RuntimeError;
+            }
+
+            output.WriteLine($"alert {alertId} {(verb == "ack" ? "acknowledged" : "resolved")} by {parse.GetRequiredValue(actor)}");
+            return ExitCodes.Ok;
+        }, cancellationToken));
+        return command;
+    }
+
+    private static Command Silence()
+    {
+        var key = new Argument<string>("key") { Description = "Model key" };
+        var check = new Option<string?>("--check") { Description = "Only this check (default: every check of the model)" };
+        var until = StoreCommandRunner.TimeOption("--until", "When the silence ends", required: true);
+        var reason = new Option<string>("--reason") { Description = "Why (kept with the silence)", Required = true };
+        var actor = new Option<string>("--actor") { Description = "Who is acting (default: the current user)", DefaultValueFactory = _ => StoreCommandRunner.Actor };
+        var database = StoreCommandRunner.DatabaseOption();
+        var command = new Command("silence", "Stop notifications for a model (or one check) until a time; runs and alerts go on") { key, check, until, reason, actor, database };
+        command.SetAction((parse, cancellationToken) => StoreCommandRunner.RunAsync(parse, "alerts silence", database, async (databases, output, ct) =>
+        {
+            DateTimeOffset end = StoreCommandRunner.ParseTime("--until", parse.GetRequiredValue(until));
+            DateTimeOffset now = TimeProvider.System.GetUtcNow();
+            if (end <= now)
+            {
+                throw new FormatException($"--until: {CliJson.Time(end)} is not in the future");
+            }
+
+            long silence = await Repository(databases).SilenceAsync(parse.GetRequiredValue(key), parse.GetValue(check), end, parse.GetRequiredValue(reason), parse.GetRequiredValue(actor), now, ct);
+            output.WriteLine($"silence {silence}: notifications for {parse.GetRequiredValue(key)}{(parse.GetValue(check) is { } c ? " / " + c : string.Empty)} stop until {CliJson.Time(end)}");
+            return ExitCodes.Ok;
+        }, cancellationToken));
+        return command;
+    }
+
+    private static Option<OutputFormat> FormatOption() => new("--format") { Description = "table or json", DefaultValueFactory = _ => OutputFormat.Table };
+
+    private static AlertRepository Repository(ModelWatch.Store.Configuration.StoreDataSources databases) =>
+        new(databases.State, StoreCommandRunner.CommandTimeout);
+
+    private static void WriteAlert(Utf8JsonWriter writer, AlertView alert, IReadOnlyList<AlertHistoryEntry>? history)
+    {
+        writer.WriteStartObject();
+        writer.WriteNumber("id", alert.Id);
+        writer.WriteString("model", alert.Model);
+        writer.WriteString("check", alert.Check);
+        writer.WriteString("subject", alert.Subject);
+        writer.WriteString("severity", alert.Severity);
+        writer.WriteString("state", alert.State);
+        CliJson.WriteTime(writer, "opened_at", alert.OpenedAt);
+        writer.WriteString("opened_by", alert.OpenedBy);
+        CliJson.WriteTime(writer, "acknowledged_at", alert.AcknowledgedAt);
+        writer.WriteString("acknowledged_by", alert.AcknowledgedBy);
+        CliJson.WriteTime(writer, "resolved_at", alert.ResolvedAt);
+        writer.WriteString("resolved_by", alert.ResolvedBy);
+        WriteNullable(writer, "first_run_id", alert.FirstRunId);
+        WriteNullable(writer, "last_run_id", alert.LastRunId);
+        writer.WriteString("note", alert.Note);
+        writer.WriteString("statistic", alert.Statistic);
+        JsonNumbers.Write(writer, "value", alert.Value);
+        JsonNumbers.Write(writer, "threshold", alert.Threshold);
+        writer.WriteString("explanation", alert.Explanation);
+        if (history is not null)
+        {
+            writer.WriteStartArray("history");
+            foreach (AlertHistoryEntry entry in history)
+            {
+                writer.WriteStartObject();
+                writer.WriteString("transition", entry.Transition);
+                writer.WriteString("severity", entry.Severity);
+                writer.WriteString("state", entry.State);
+                WriteNullable(writer, "run_id", entry.RunId);
+                writer.WriteString("actor", entry.Actor);
+                CliJson.WriteTime(writer, "at", entry.At);
+                writer.WriteString("statistic", entry.Statistic);
+                JsonNumbers.Write(writer, "value", entry.Value);
+                JsonNumbers.Write(writer, "threshold", entry.Threshold);
+                writer.WriteString("explanation", entry.Explanation);
+                writer.WriteEndObject();
+            }
+
+            writer.WriteEndArray();
+        }
+
+        writer.WriteEndObject();
+    }
+
+    private static void WriteNullable(Utf8JsonWriter writer, string name, long? value)
+    {
+        if (value is { } v)
+        {
+            writer.WriteNumber(name, v);
+        }
+        else
+        {
+            writer.WriteNull(name);
+        }
+    }
+}

@@ -1,0 +1,50 @@
+using System.CommandLine;
+using Microsoft.Extensions.Hosting;
+using Microsoft.Extensions.Options;
+using ModelWatch.Daemon.Hosting;
+
+namespace ModelWatch.Cli.Commands;
+
+/// <summary><c>modelwatch daemon [--database CS]</c>: runs the scheduler until SIGTERM or Ctrl+C.</summary>
+internal static class DaemonCommand
+{
+    public static Command Create()
+    {
+        var database = StoreCommandRunner.DatabaseOption();
+        var command = new Command("daemon", "Run the monitoring daemon: claim due models, run them, record runs and alerts, emit telemetry") { database };
+        command.SetAction(async (parse, cancellationToken) =>
+        {
+            IHost host;
+            try
+            {
+                host = DaemonHost.Build([], parse.GetValue(database));
+            }
+            catch (Exception ex) when (ex is InvalidOperationException or FormatException)
+            {
+                parse.InvocationConfiguration.Error.WriteLine($"modelwatch daemon: {ex.Message}");
+                return ExitCodes.RuntimeError;
+            }
+
+            try
+            {
+                // The host owns SIGTERM and Ctrl+C (its lifetime), so in-flight runs get the full shutdown timeout.
+                await host.RunAsync(CancellationToken.None);
+                return ExitCodes.Ok;
+            }
+            catch (OptionsValidationException ex)
+            {
+                foreach (string failure in ex.Failures)
+                {
+                    parse.InvocationConfiguration.Error.WriteLine($"modelwatch daemon: configuration: {failure}");
+                }
+
+                return ExitCodes.RuntimeError;
+            }
+            finally
+            {
+                host.Dispose();
+            }
+        });
+        return command;
+    }
+}

@@ -1,0 +1,83 @@
+using System.CommandLine;
+using System.Globalization;
+using System.Text.Json;
+using ModelWatch.Cli.Output;
+using ModelWatch.Daemon.Persistence;
+
+namespace ModelWatch.Cli.Commands;
+
+/// <summary><c>modelwatch runs list [KEY] [--limit N] [--format table|json]</c>.</summary>
+internal static class RunsCommand
+{
+    public static Command Create()
+    {
+        var key = new Argument<string?>("key") { Description = "Only this model's runs", Arity = ArgumentArity.ZeroOrOne };
+        var limit = new Option<int>("--limit") { Description = "Newest runs to show (default 50)", DefaultValueFactory = _ => 50 };
+        var format = new Option<OutputFormat>("--format") { Description = "table or json", DefaultValueFactory = _ => OutputFormat.Table };
+        var database = StoreCommandRunner.DatabaseOption();
+        var list = new Command("list", "List recorded runs, newest first: slot, window, status, worker and stage timings") { key, limit, format, database };
+        list.SetAction((parse, cancellationToken) => StoreCommandRunner.RunAsync(parse, "runs list", database, async (databases, output, ct) =>
+        {
+            IReadOnlyList<RunView> runs = await new RunQueries(databases.State, StoreCommandRunner.CommandTimeout).ListAsync(parse.GetValue(key), Math.Max(1, parse.GetValue(limit)), ct);
+            if (parse.GetValue(format) == OutputFormat.Json)
+            {
+                CliJson.Write(output, writer => WriteJson(writer, runs));
+                return ExitCodes.Ok;
+            }
+
+            List<string[]> rows = [["ID", "MODEL", "SLOT", "WINDOW", "STATUS", "ROWS", "WORKER", "SECONDS", "REASON"]];
+            rows.AddRange(runs.Select(r => new[]
+            {
+                r.Id.ToString(CultureInfo.InvariantCulture), r.Model, CliJson.Time(r.Slot)!,
+                r.WindowStart is null ? "-" : $"{CliJson.Time(r.WindowStart)} → {CliJson.Time(r.WindowEnd)}",
+                r.Status, r.RowsRead.ToString(CultureInfo.InvariantCulture), r.Worker,
+                r.FinishedAt is { } f ? (f - r.StartedAt).TotalSeconds.ToString("F2", CultureInfo.InvariantCulture) : "-",
+                r.Reason ?? string.Empty,
+            }));
+            CliJson.WriteTable(output, rows);
+            return ExitCodes.Ok;
+        }, cancellationToken));
+        return new Command("runs", "Run history") { list };
+    }
+
+    private static void WriteJson(Utf8JsonWriter writer, IReadOnlyList<RunView> runs)
+    {
+        writer.WriteStartArray();
+        foreach (RunView run in runs)
+        {
+            writer.WriteStartObject();
+            writer.WriteNumber("id", run.Id);
+            writer.WriteString("model", run.Model);
+            CliJson.WriteTime(writer, "slot", run.Slot);
+            writer.WriteStartObject("window");
+            CliJson.WriteTime(writer, "start", run.WindowStart);
+            CliJson.WriteTime(writer, "end", run.WindowEnd);
+            writer.WriteEndObject();
+            writer.WriteString("status", run.Status);
+            writer.WriteString("reason", run.Reason);
+            if (run.BaselineVersion is { } version)
+            {
+                writer.WriteNumber("baseline_version", version);
+            }
+            else
+            {
+                writer.WriteNull("baseline_version");
+            }
+
+            writer.WriteNumber("rows_read", run.RowsRead);
+            writer.WriteNumber("rows_rejected", run.RowsRejected);
+            writer.WriteString("worker", run.Worker);
+            CliJson.WriteTime(writer, "started_at", run.StartedAt);
+            CliJson.WriteTime(writer, "finished_at", run.FinishedAt);
+            writer.WritePropertyName("timings");
+            using (JsonDocument timings = JsonDocument.Parse(run.StageTimings))
+            {
+                timings.RootElement.WriteTo(writer);
+            }
+
+            writer.WriteEndObject();
+        }
+
+        writer.WriteEndArray();
+    }
+}

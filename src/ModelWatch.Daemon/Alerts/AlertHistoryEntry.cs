@@ -1,0 +1,35 @@
+namespace ModelWatch.Daemon.Alerts;
+
+/// <summary>One recorded transition of an alert.</summary>
+public sealed class AlertHistoryEntry
+{
+    /// <summary>opened, reopened, escalated, acknowledged, resolved.</summary>
+    public string Transition { get; set; } = string.Empty;
+
+    /// <summary>Severity at the time.</summary>
+    public string Severity { get; set; } = string.Empty;
+
+    /// <summary>State after the transition.</summary>
+    public string State { get; set; } = string.Empty;
+
+    /// <summary>The run behind it, for policy transitions.</summary>
+    public long? RunId { get; set; }
+
+    /// <summary>Who made it.</summary>
+    public string Actor { get; set; } = string.Empty;
+
+    /// <summary>When (UTC).</summary>
+    public DateTime At { get; set; }
+
+    /// <summary>Statistic of the evidence.</summary>
+    public string? Statistic { get; set; }
+
+    /// <summary>Its value.</summary>
+    public double? Value { get; set; }
+
+    /// <summary>Its threshold.</summary>
+    public double? Threshold { get; set; }
+
+    /// <summary>Explanation or operator note.</summary>
+    public string Explanation { get; set; } = string.Empty;
+}

@@ -1,0 +1,149 @@
+using System.Diagnostics;
+using ModelWatch.Checks.Evaluation;
+using ModelWatch.Checks.Findings;
+using ModelWatch.Checks.Policy;
+using ModelWatch.Checks.Summaries;
+using ModelWatch.Daemon.Persistence;
+using ModelWatch.Daemon.Telemetry;
+using ModelWatch.Store.Baselines;
+using ModelWatch.Store.Configuration;
+using ModelWatch.Store.Models;
+using ModelWatch.Store.Specs;
+using ModelWatch.Store.Windows;
+using Npgsql;
+
+namespace ModelWatch.Daemon.Execution;
+
+/// <summary>
+/// One run of one model at one slot: read the window in a single pass into the summary builder, fit, run the
+/// checks against the baseline with the persisted sequential state, and let the alert policy decide. Faults become
+/// the run's outcome (<c>failed</c> with the reason, <c>skipped</c> for want of rows or of a baseline), never an
+/// exception, so one bad model cannot stop the loop. Only cancellation (shutdown) propagates.
+/// </summary>
+public sealed class RunPipeline(
+    StoreDataSources databases,
+    BaselineRepository baselines,
+    RunRecorder recorder,
+    WindowReader reader,
+    TimeProvider time)
+{
+    /// <summary>Runs a model for a slot, with the memory of earlier runs kept in the state database.</summary>
+    public Task<RunOutcome> ExecuteAsync(ModelRecord model, DateTimeOffset slot, CancellationToken cancellationToken) =>
+        ExecuteAsync(model, slot, recorder, cancellationToken);
+
+    /// <summary>Runs a model for a slot with the given memory of earlier runs (a backtest keeps it in memory).</summary>
+    public async Task<RunOutcome> ExecuteAsync(ModelRecord model, DateTimeOffset slot, IRunMemory memory, CancellationToken cancellationToken)
+    {
+        ArgumentNullException.ThrowIfNull(model);
+        ArgumentNullException.ThrowIfNull(memory);
+        ModelSpec spec = model.Spec;
+        DateTimeOffset started = time.GetUtcNow();
+        (DateTimeOffset start, DateTimeOffset end) = spec.WindowForSlot(slot);
+        var outcome = new RunOutcome { ModelKey = spec.Key, Slot = slot, Status = "ok", StartedAt = started, WindowStart = start, WindowEnd = end };
+        using Activity? activity = ModelWatchActivitySource.Instance.StartActivity("modelwatch.run");
+        activity?.SetTag(TelemetryNames.ModelTag, spec.Key);
+        activity?.SetTag("modelwatch.slot", slot.ToString("O", System.Globalization.CultureInfo.InvariantCulture));
+
+        if (model.BaselineProblem is { } problem)
+        {
+            return outcome with { Status = "skipped", Reason = (model.BaselineVersion is null ? "no_baseline: " : "baseline_incompatible: ") + problem };
+        }
+
+        StoredBaseline? baseline = await baselines.GetCurrentAsync(spec.Key, cancellationToken);
+        if (baseline is null)
+        {
+            return outcome with { Status = "skipped", Reason = "no_baseline: the baseline disappeared while the run started" };
+        }
+
+        outcome = outcome with { BaselineVersion = baseline.Version, BaselineFingerprint = baseline.Reference.Fingerprint };
+        CheckThresholds thresholds;
+        try
+        {
+            thresholds = SpecThresholds.For(spec, started);
+        }
+        catch (ArgumentException ex)
+        {
+            return outcome with { Status = "failed", Reason = "bad_thresholds: " + ex.Message, ErrorType = "bad_thresholds" };
+        }
+
+        var stages = new Dictionary<string, double>(StringComparer.Ordinal);
+        WindowReadResult<WindowSummarySink> read;
+        long t0 = time.GetTimestamp();
+        using (Activity? span = ModelWatchActivitySource.Instance.StartActivity("modelwatch.run.read"))
+        {
+            try
+            {
+                NpgsqlDataSource source = databases.Source(spec.Source);
+                var options = new WindowSummaryOptions();
+                // Rows after both the previous run's window and the baseline's reference window are new: the sequential
+                // statistics consume only rows that no earlier fit has seen.
+                DateTimeOffset? lastEnd = await memory.LastWindowEndAsync(spec.Key, cancellationToken);
+                DateTimeOffset? newFrom = (lastEnd, baseline.ReferenceWindowEnd) switch
+                {
+                    ({ } a, { } b) => a > b ? a : b,
+                    (var a, var b) => a ?? b,
+                };
+                read = await reader.ReadAsync(
+                    source, spec, start, end, () => new WindowSummarySink(spec.Layout, baseline.Reference, options), WindowSummarySink.Merge, newFrom, cancellationToken);
+                span?.SetTag("modelwatch.rows.read", read.RowsRead);
+            }
+            catch (WindowReadException ex)
+            {
+                span?.SetStatus(ActivityStatusCode.Error, ex.Message);
+                return outcome with { Status = "failed", Reason = ex.Message, ErrorType = ex.SqlState ?? ex.Failure.ToString() };
+            }
+            catch (Exception ex) when (ex is NpgsqlException or StoreConfigurationException or TimeoutException && !cancellationToken.IsCancellationRequested)
+            {
+                span?.SetStatus(ActivityStatusCode.Error, ex.Message);
+                return outcome with { Status = "failed", Reason = $"model {spec.Key}: {ex.Message}", ErrorType = (ex as PostgresException)?.SqlState ?? ex.GetType().Name };
+            }
+        }
+
+        stages["read"] = time.GetElapsedTime(t0).TotalSeconds;
+        outcome = outcome with { RowsRead = read.RowsRead, RowsRejected = read.RowsRejected, RejectedReasons = read.RejectedReasons };
+
+        long t1 = time.GetTimestamp();
+        WindowSummary summary;
+        using (ModelWatchActivitySource.Instance.StartActivity("modelwatch.run.fit"))
+        {
+            summary = read.Sink.Builder.Build();
+        }
+
+        stages["fit"] = time.GetElapsedTime(t1).TotalSeconds;
+        long t2 = time.GetTimestamp();
+        IReadOnlyList<CheckResult> results;
+        IReadOnlyList<AlertDecision> decisions;
+        using (ModelWatchActivitySource.Instance.StartActivity("modelwatch.run.checks"))
+        {
+            (Dictionary<string, CheckState> checkStates, List<AlertPolicyState> policyStates) = await memory.LoadStatesAsync(spec.Key, cancellationToken);
+            results = ModelChecks.Run(baseline.Reference, summary, start, end, checkStates, thresholds);
+            decisions = AlertPolicy.Evaluate(results, policyStates, baseline.Reference.Fingerprint, thresholds);
+        }
+
+        stages["checks"] = time.GetElapsedTime(t2).TotalSeconds;
+        CheckResult? data = results.FirstOrDefault(r => r.Check == CheckNames.Data);
+        bool insufficient = data is { Skipped: true } || results.Where(r => r.Check != CheckNames.Data).All(r => r.SkipReason == SkipReasons.InsufficientData);
+        return outcome with
+        {
+            Status = insufficient ? "skipped" : "ok",
+            Reason = insufficient ? $"{SkipReasons.InsufficientData}: {read.RowsAccepted} usable row(s) in [{start:yyyy-MM-ddTHH:mm:ssZ}, {end:yyyy-MM-ddTHH:mm:ssZ}), min_rows is {spec.MinRows}" : null,
+            Results = results,
+            Decisions = decisions,
+            StageSeconds = stages,
+            Gauges = GaugesOf(summary, baseline.Reference, results),
+        };
+    }
+
+    private static ModelGaugeValues GaugesOf(WindowSummary summary, BaselineReference baseline, IReadOnlyList<CheckResult> results)
+    {
+        List<Finding> findings = results.SelectMany(r => r.Findings).Where(f => !f.Skipped && f.Value is not null).ToList();
+        double rmse = summary.RowsAccepted > 0 ? Math.Sqrt(summary.DeployedErrorSumOfSquares / summary.RowsAccepted) : double.NaN;
+        return new ModelGaugeValues(
+            RmseRatio: rmse / baseline.ResidualStandardDeviation,
+            ConditionNumber: summary.Fit?.ConditionNumber ?? double.NaN,
+            MaxCoefficientZ: findings.Where(f => f.Check == CheckNames.Coefficients && f.Statistic == "z").Select(f => Math.Abs(f.Value!.Value)).DefaultIfEmpty(double.NaN).Max(),
+            MaxPsi: findings.Where(f => f.Statistic == "psi").Select(f => f.Value!.Value).DefaultIfEmpty(double.NaN).Max(),
+            OpenWarnings: 0,
+            OpenCriticals: 0);
+    }
+}

@@ -1,0 +1,113 @@
+using Dapper;
+using ModelWatch.Checks.Findings;
+using ModelWatch.Checks.Policy;
+using ModelWatch.Daemon.Alerts;
+using Npgsql;
+
+namespace ModelWatch.Daemon.Persistence;
+
+/// <summary>
+/// Applies one alert-policy decision to the alert table inside the run's transaction. The lifecycle
+/// (docs/operations.md): one unresolved alert per (model, check, subject); <c>open</c> → <c>acknowledged</c> →
+/// <c>resolved</c>; fresh critical evidence on a warning alert escalates it; evidence after a resolution opens a new
+/// alert whose transition is <c>reopened</c> (the old one stays resolved, so the history is never rewritten).
+/// </summary>
+internal static class AlertTransitions
+{
+    private const string FindUnresolvedSql = """
+        SELECT id AS Id, severity AS Severity, state AS State
+          FROM modelwatch.alert
+         WHERE model_key = @model AND check_name = @check AND subject IS NOT DISTINCT FROM @subject AND state <> 'resolved'
+           FOR UPDATE
+        """;
+
+    public static async Task<AlertEvent?> ApplyAsync(
+        NpgsqlConnection connection, NpgsqlTransaction transaction, int timeout, string model, AlertDecision decision, long runId, string actor, DateTimeOffset now, CancellationToken cancellationToken)
+    {
+        CommandDefinition Command(string sql, object? args) => new(sql, args, transaction, timeout, cancellationToken: cancellationToken);
+        if (decision.Action == AlertAction.None)
+        {
+            return null;
+        }
+
+        var current = await connection.QuerySingleOrDefaultAsync<AlertRow>(Command(FindUnresolvedSql, new { model, check = decision.Check, subject = decision.Subject }));
+        Finding? evidence = decision.Evidence;
+        string severity = evidence is { Severity: Severity.Critical } ? "critical" : "warning";
+        switch (decision.Action)
+        {
+            case AlertAction.Open or AlertAction.Raise when current is null:
+            {
+                bool before = await connection.ExecuteScalarAsync<bool>(Command(
+                    "SELECT EXISTS (SELECT 1 FROM modelwatch.alert WHERE model_key = @model AND check_name = @check AND subject IS NOT DISTINCT FROM @subject)",
+                    new { model, check = decision.Check, subject = decision.Subject }));
+                long id = await connection.QuerySingleAsync<long>(Command(
+                    """
+                    INSERT INTO modelwatch.alert (model_key, check_name, subject, severity, state, opened_at, opened_by, first_run_id, last_run_id)
+                    VALUES (@model, @check, @subject, @severity, 'open', @now, @actor, @runId, @runId)
+                    RETURNING id
+                    """,
+                    new { model, check = decision.Check, subject = decision.Subject, severity, now, actor, runId }));
+                return await RecordAsync(connection, Command, id, before ? "reopened" : "opened", severity, "open", model, decision, runId, actor, now);
+            }
+
+            case AlertAction.Open or AlertAction.Raise:
+            {
+                bool escalate = current!.Severity == "warning" && severity == "critical";
+                await connection.ExecuteAsync(Command(
+                    "UPDATE modelwatch.alert SET last_run_id = @runId, severity = CASE WHEN @escalate THEN 'critical' ELSE severity END WHERE id = @id",
+                    new { runId, escalate, id = current.Id }));
+                return escalate
+                    ? await RecordAsync(connection, Command, current.Id, "escalated", "critical", current.State, model, decision, runId, actor, now)
+                    : null;
+            }
+
+            case AlertAction.Resolve when current is not null:
+                await connection.ExecuteAsync(Command(
+                    "UPDATE modelwatch.alert SET state = 'resolved', resolved_at = @now, resolved_by = @actor, last_run_id = @runId WHERE id = @id",
+                    new { now, actor, runId, id = current.Id }));
+                return await RecordAsync(connection, Command, current.Id, "resolved", current.Severity, "resolved", model, decision, runId, actor, now);
+
+            default:
+                return null;
+        }
+    }
+
+    private static async Task<AlertEvent> RecordAsync(
+        NpgsqlConnection connection, Func<string, object?, CommandDefinition> command, long alertId, string transition, string severity, string state,
+        string model, AlertDecision decision, long runId, string actor, DateTimeOffset now)
+    {
+        Finding? evidence = decision.Evidence;
+        string explanation = evidence?.Explanation ?? decision.Reason;
+        await connection.ExecuteAsync(command(
+            """
+            INSERT INTO modelwatch.alert_event (alert_id, transition, severity, state, run_id, actor, at, statistic, value, threshold, explanation)
+            VALUES (@alertId, @transition, @severity, @state, @runId, @actor, @now, @statistic, @value, @threshold, @explanation)
+            """,
+            new
+            {
+                alertId,
+                transition,
+                severity,
+                state,
+                runId,
+                actor,
+                now,
+                statistic = evidence?.Statistic,
+                value = Finite(evidence?.Value),
+                threshold = Finite(evidence?.Threshold),
+                explanation,
+            }));
+        return new AlertEvent(alertId, transition, model, decision.Check, decision.Subject, severity, state, evidence?.Statistic ?? "none", Finite(evidence?.Value), Finite(evidence?.Threshold), explanation, now);
+    }
+
+    private static double? Finite(double? value) => value is { } v && double.IsFinite(v) ? v : null;
+
+    private sealed class AlertRow
+    {
+        public long Id { get; set; }
+
+        public string Severity { get; set; } = string.Empty;
+
+        public string State { get; set; } = string.Empty;
+    }
+}

@@ -1,0 +1,156 @@
+using System.Text.Json;
+using Dapper;
+using ModelWatch.Checks.Findings;
+using ModelWatch.Checks.Policy;
+using ModelWatch.Daemon.Alerts;
+using ModelWatch.Daemon.Execution;
+using Npgsql;
+
+namespace ModelWatch.Daemon.Persistence;
+
+/// <summary>
+/// Writes a run, its findings, the checks' new states and the alert transitions in one transaction, and only while
+/// this worker still holds the model's lease (the fencing update is the first statement; if it touches no row, the
+/// transaction is rolled back and nothing is written). The run's (model, slot) key is unique, so a slot that another
+/// replica already recorded is never recorded twice: the schedule simply moves on.
+/// </summary>
+public sealed class RunRecorder(NpgsqlDataSource state, TimeSpan commandTimeout) : IRunMemory
+{
+    private const string FenceSql = """
+        UPDATE modelwatch.model
+           SET next_due_slot = @nextDue, lease_owner = NULL, lease_expires_at = NULL
+         WHERE key = @key AND lease_owner = @worker AND lease_expires_at > @now
+        """;
+
+    private const string InsertRunSql = """
+        INSERT INTO modelwatch.run (model_key, slot, baseline_version, window_start, window_end, rows_read, rows_rejected,
+                                    rejected_reasons, status, reason, stage_timings, worker_id, started_at, finished_at)
+        VALUES (@ModelKey, @Slot, @BaselineVersion, @WindowStart, @WindowEnd, @RowsRead, @RowsRejected,
+                @RejectedReasons::jsonb, @Status, @Reason, @StageTimings::jsonb, @Worker, @StartedAt, @FinishedAt)
+        ON CONFLICT (model_key, slot) DO NOTHING
+        RETURNING id
+        """;
+
+    private const string InsertFindingSql = """
+        INSERT INTO modelwatch.finding (run_id, check_name, subject, statistic, value, p_value, threshold, effect_size, severity, explanation, details)
+        VALUES (@RunId, @Check, @Subject, @Statistic, @Value, @PValue, @Threshold, @EffectSize, @Severity, @Explanation, @Details::jsonb)
+        ON CONFLICT DO NOTHING
+        """;
+
+    private const string UpsertCheckStateSql = """
+        INSERT INTO modelwatch.check_state (model_key, check_name, subject, state, last_run_id, updated_at)
+        VALUES (@key, @check, NULL, @state::jsonb, @runId, @now)
+        ON CONFLICT (model_key, check_name, subject) DO UPDATE
+           SET state = EXCLUDED.state, last_run_id = EXCLUDED.last_run_id, updated_at = EXCLUDED.updated_at
+        """;
+
+    private const string UpsertPolicyStateSql = """
+        INSERT INTO modelwatch.alert_policy_state (model_key, check_name, subject, state, updated_at)
+        VALUES (@key, @check, @subject, @state::jsonb, @now)
+        ON CONFLICT (model_key, check_name, subject) DO UPDATE SET state = EXCLUDED.state, updated_at = EXCLUDED.updated_at
+        """;
+
+    /// <summary>Records a finished run; see the class remarks for the guarantees.</summary>
+    public async Task<RecordedRun> RecordAsync(RunOutcome outcome, string worker, DateTimeOffset nextDue, DateTimeOffset now, CancellationToken cancellationToken)
+    {
+        ArgumentNullException.ThrowIfNull(outcome);
+        await using NpgsqlConnection connection = await state.OpenConnectionAsync(cancellationToken);
+        await using NpgsqlTransaction transaction = await connection.BeginTransactionAsync(cancellationToken);
+        CommandDefinition Command(string sql, object? args) => new(sql, args, transaction, Seconds, cancellationToken: cancellationToken);
+
+        int fenced = await connection.ExecuteAsync(Command(FenceSql, new { key = outcome.ModelKey, worker, now, nextDue }));
+        if (fenced == 0)
+        {
+            await transaction.RollbackAsync(cancellationToken);
+            return new RecordedRun(null, [], LeaseLost: true, AlreadyRecorded: false);
+        }
+
+        long? runId = await connection.QuerySingleOrDefaultAsync<long?>(Command(InsertRunSql, new
+        {
+            outcome.ModelKey,
+            outcome.Slot,
+            outcome.BaselineVersion,
+            outcome.WindowStart,
+            outcome.WindowEnd,
+            outcome.RowsRead,
+            outcome.RowsRejected,
+            RejectedReasons = JsonSerializer.Serialize(outcome.RejectedReasons),
+            outcome.Status,
+            outcome.Reason,
+            StageTimings = JsonSerializer.Serialize(outcome.StageSeconds),
+            Worker = worker,
+            outcome.StartedAt,
+            FinishedAt = now,
+        }));
+        if (runId is null)
+        {
+            await transaction.CommitAsync(cancellationToken);
+            return new RecordedRun(null, [], LeaseLost: false, AlreadyRecorded: true);
+        }
+
+        foreach (CheckResult result in outcome.Results)
+        {
+            foreach (Finding finding in result.Findings)
+            {
+                await connection.ExecuteAsync(Command(InsertFindingSql, FindingRow.From(runId.Value, finding)));
+            }
+
+            await connection.ExecuteAsync(Command(UpsertCheckStateSql, new
+            {
+                key = outcome.ModelKey,
+                check = result.Check,
+                state = JsonSerializer.Serialize(result.State, StateJson.Options),
+                runId,
+                now,
+            }));
+        }
+
+        var transitions = new List<AlertEvent>();
+        foreach (AlertDecision decision in outcome.Decisions)
+        {
+            await connection.ExecuteAsync(Command(UpsertPolicyStateSql, new
+            {
+                key = outcome.ModelKey,
+                check = decision.Check,
+                subject = decision.Subject,
+                state = JsonSerializer.Serialize(decision.State, StateJson.Options),
+                now,
+            }));
+            AlertEvent? transition = await AlertTransitions.ApplyAsync(connection, transaction, Seconds, outcome.ModelKey, decision, runId.Value, "daemon:" + worker, now, cancellationToken);
+            if (transition is not null)
+            {
+                transitions.Add(transition);
+            }
+        }
+
+        await transaction.CommitAsync(cancellationToken);
+        return new RecordedRun(runId, transitions, LeaseLost: false, AlreadyRecorded: false);
+    }
+
+    /// <summary>Loads the persisted check states and alert policy states of a model.</summary>
+    public async Task<(Dictionary<string, CheckState> Checks, List<AlertPolicyState> Policy)> LoadStatesAsync(string modelKey, CancellationToken cancellationToken)
+    {
+        await using NpgsqlConnection connection = await state.OpenConnectionAsync(cancellationToken);
+        var checks = await connection.QueryAsync<(string Check, string State)>(new CommandDefinition(
+            "SELECT check_name, state::text FROM modelwatch.check_state WHERE model_key = @modelKey AND subject IS NULL",
+            new { modelKey }, commandTimeout: Seconds, cancellationToken: cancellationToken));
+        var policy = await connection.QueryAsync<string>(new CommandDefinition(
+            "SELECT state::text FROM modelwatch.alert_policy_state WHERE model_key = @modelKey",
+            new { modelKey }, commandTimeout: Seconds, cancellationToken: cancellationToken));
+        return (
+            checks.ToDictionary(c => c.Check, c => JsonSerializer.Deserialize<CheckState>(c.State, StateJson.Options)!, StringComparer.Ordinal),
+            policy.Select(p => JsonSerializer.Deserialize<AlertPolicyState>(p, StateJson.Options)!).ToList());
+    }
+
+    /// <summary>End of the window of the model's latest recorded run (any status that read rows), or null for a first run.</summary>
+    public async Task<DateTimeOffset?> LastWindowEndAsync(string modelKey, CancellationToken cancellationToken)
+    {
+        await using NpgsqlConnection connection = await state.OpenConnectionAsync(cancellationToken);
+        DateTime? end = await connection.ExecuteScalarAsync<DateTime?>(new CommandDefinition(
+            "SELECT max(window_end) FROM modelwatch.run WHERE model_key = @modelKey AND rows_read > 0",
+            new { modelKey }, commandTimeout: Seconds, cancellationToken: cancellationToken));
+        return end is { } e ? new DateTimeOffset(DateTime.SpecifyKind(e, DateTimeKind.Utc)) : null;
+    }
+
+    private int Seconds => (int)Math.Ceiling(commandTimeout.TotalSeconds);
+}

@@ -1,0 +1,268 @@
+using Microsoft.Extensions.Hosting;
+using Microsoft.Extensions.Logging;
+using Microsoft.Extensions.Options;
+using ModelWatch.Daemon.Execution;
+using ModelWatch.Daemon.Health;
+using ModelWatch.Daemon.Options;
+using ModelWatch.Daemon.Persistence;
+using ModelWatch.Store.Migrations;
+using ModelWatch.Store.Models;
+using ModelWatch.Store.Specs;
+using Npgsql;
+
+namespace ModelWatch.Daemon.Scheduling;
+
+/// <summary>
+/// The daemon's loop: every poll it claims due models (up to the free concurrency), runs each through the
+/// pipeline on the thread pool, and records the outcome under the lease. A fault in one model is that run's
+/// outcome; a fault of the state database backs the loop off with jitter and turns readiness false until it
+/// answers again. On shutdown it stops claiming, gives in-flight runs <see cref="DaemonOptions.ShutdownTimeout"/>,
+/// then abandons them and releases its leases.
+/// </summary>
+public sealed partial class SchedulerService(
+    ModelRepository models,
+    LeaseRepository leases,
+    RunPipeline pipeline,
+    RunCompletion completion,
+    NpgsqlDataSource state,
+    DaemonHealth health,
+    IOptions<DaemonOptions> options,
+    TimeProvider time,
+    ILogger<SchedulerService> logger) : BackgroundService
+{
+    private readonly Random _jitter = new();
+    private readonly SemaphoreSlim _runFinished = new(0);
+    private readonly HashSet<Task> _inFlight = [];
+    private readonly Lock _gate = new();
+
+    /// <inheritdoc />
+    protected override async Task ExecuteAsync(CancellationToken stoppingToken)
+    {
+        DaemonOptions settings = options.Value;
+        using var runs = new CancellationTokenSource();
+        int failures = 0;
+        bool migrated = !settings.MigrateOnStart;
+        LogStarting(logger, settings.WorkerId, settings.Concurrency);
+        while (!stoppingToken.IsCancellationRequested)
+        {
+            TimeSpan wait = settings.PollInterval;
+            bool mayHaveMore = false;
+            try
+            {
+                if (!migrated)
+                {
+                    MigrationResult result = await MigrationRunner.MigrateAsync(state, TimeSpan.FromMinutes(2), stoppingToken);
+                    LogMigrated(logger, result.CurrentVersion, result.Applied.Count);
+                    migrated = true;
+                }
+
+                await ScheduleNewModelsAsync(stoppingToken);
+                int free = settings.Concurrency - InFlightCount;
+                if (free > 0)
+                {
+                    DateTimeOffset now = time.GetUtcNow();
+                    IReadOnlyList<ClaimedModel> claimed = await leases.ClaimDueAsync(settings.WorkerId, now, settings.LeaseDuration, free, stoppingToken);
+                    foreach (ClaimedModel claim in claimed)
+                    {
+                        Track(Task.Run(() => RunClaimedAsync(claim, runs.Token), CancellationToken.None));
+                    }
+
+                    // Look again as soon as a run finishes: a full claim may have left due models behind, and a
+                    // model catching up on missed slots is due again at once.
+                    mayHaveMore = claimed.Count > 0;
+                }
+                else
+                {
+                    mayHaveMore = true;
+                }
+
+                health.DatabaseAvailable();
+                health.CycleCompleted();
+                failures = 0;
+            }
+            catch (OperationCanceledException) when (stoppingToken.IsCancellationRequested)
+            {
+                break;
+            }
+            catch (Exception ex) when (ex is NpgsqlException or TimeoutException or System.Net.Sockets.SocketException or MigrationException)
+            {
+                failures++;
+                health.DatabaseUnavailable(ex.Message);
+                health.CycleCompleted();
+                wait = Backoff(settings, failures);
+                LogDatabaseUnavailable(logger, ex.Message, wait.TotalSeconds);
+            }
+
+            try
+            {
+                await WaitAsync(wait, mayHaveMore, stoppingToken);
+            }
+            catch (OperationCanceledException)
+            {
+                break;
+            }
+        }
+
+        await DrainAsync(settings, runs);
+    }
+
+    private int InFlightCount
+    {
+        get
+        {
+            lock (_gate)
+            {
+                return _inFlight.Count;
+            }
+        }
+    }
+
+    private async Task RunClaimedAsync(ClaimedModel claim, CancellationToken cancellationToken)
+    {
+        DaemonOptions settings = options.Value;
+        try
+        {
+            ModelRecord? model = await models.GetAsync(claim.Key, cancellationToken);
+            if (model is null || !model.Enabled)
+            {
+                await leases.ReleaseAsync(settings.WorkerId, claim.Key, cancellationToken);
+                return;
+            }
+
+            SlotPlan plan = SlotPlanner.Plan(model.Spec.Schedule, claim.Slot, time.GetUtcNow(), settings.MissedSlots, settings.MaxCatchUpSlots);
+            if (plan.PassedOver > 0)
+            {
+                LogPassedOver(logger, claim.Key, plan.PassedOver, plan.RunSlot);
+            }
+
+            RunOutcome outcome = await pipeline.ExecuteAsync(model, plan.RunSlot, cancellationToken);
+            await completion.CompleteAsync(model, outcome, plan.NextDue, cancellationToken);
+        }
+        catch (OperationCanceledException) when (cancellationToken.IsCancellationRequested)
+        {
+            LogAbandoned(logger, claim.Key, claim.Slot);
+        }
+        catch (Exception ex) when (ex is not OutOfMemoryException)
+        {
+            // The lease expires and the slot is retried; the unique (model, slot) key keeps it from running twice.
+            LogRunCrashed(logger, ex, claim.Key, claim.Slot);
+        }
+    }
+
+    private async Task WaitAsync(TimeSpan wait, bool wakeOnFinishedRun, CancellationToken stoppingToken)
+    {
+        if (!wakeOnFinishedRun)
+        {
+            await Task.Delay(wait, time, stoppingToken);
+            return;
+        }
+
+        using var either = CancellationTokenSource.CreateLinkedTokenSource(stoppingToken);
+        Task delay = Task.Delay(wait, time, either.Token);
+        Task finished = _runFinished.WaitAsync(either.Token);
+        await Task.WhenAny(delay, finished);
+        await either.CancelAsync();
+        stoppingToken.ThrowIfCancellationRequested();
+    }
+
+    private async Task ScheduleNewModelsAsync(CancellationToken cancellationToken)
+    {
+        foreach ((string key, string scheduleText) in await leases.UnscheduledAsync(cancellationToken))
+        {
+            if (Schedule.TryParse(scheduleText, out Schedule? schedule, out _))
+            {
+                await leases.ScheduleAsync(key, SlotPlanner.FirstSlot(schedule!, time.GetUtcNow()), cancellationToken);
+            }
+        }
+    }
+
+    private void Track(Task task)
+    {
+        lock (_gate)
+        {
+            _inFlight.Add(task);
+        }
+
+        task.ContinueWith(
+            t =>
+            {
+                lock (_gate)
+                {
+                    _inFlight.Remove(t);
+                }
+
+                _runFinished.Release();
+            },
+            CancellationToken.None,
+            TaskContinuationOptions.ExecuteSynchronously,
+            TaskScheduler.Default);
+    }
+
+    private async Task DrainAsync(DaemonOptions settings, CancellationTokenSource runs)
+    {
+        Task[] pending;
+        lock (_gate)
+        {
+            pending = [.. _inFlight];
+        }
+
+        if (pending.Length > 0)
+        {
+            Task all = Task.WhenAll(pending);
+            Task timeout = Task.Delay(settings.ShutdownTimeout, time, CancellationToken.None);
+            if (await Task.WhenAny(all, timeout) != all)
+            {
+                await runs.CancelAsync();
+                await Task.WhenAny(all, Task.Delay(TimeSpan.FromSeconds(5), CancellationToken.None));
+            }
+        }
+
+        try
+        {
+            using var release = new CancellationTokenSource(TimeSpan.FromSeconds(5));
+            int released = await leases.ReleaseAllAsync(settings.WorkerId, release.Token);
+            LogStopped(logger, settings.WorkerId, released);
+        }
+        catch (Exception ex) when (ex is NpgsqlException or OperationCanceledException or TimeoutException)
+        {
+            LogReleaseFailed(logger, ex.Message);
+        }
+    }
+
+    /// <inheritdoc />
+    public override void Dispose()
+    {
+        _runFinished.Dispose();
+        base.Dispose();
+    }
+
+    private TimeSpan Backoff(DaemonOptions settings, int failures)
+    {
+        double seconds = Math.Min(settings.MaxBackoff.TotalSeconds, Math.Pow(2, Math.Min(failures, 16)));
+        return TimeSpan.FromSeconds(seconds * (0.5 + (0.5 * _jitter.NextDouble())));
+    }
+
+    [LoggerMessage(EventId = 1001, Level = LogLevel.Information, Message = "Worker {WorkerId} starting with concurrency {Concurrency}")]
+    private static partial void LogStarting(ILogger logger, string workerId, int concurrency);
+
+    [LoggerMessage(EventId = 1002, Level = LogLevel.Information, Message = "State database at schema version {Version} ({Applied} migration(s) applied)")]
+    private static partial void LogMigrated(ILogger logger, int version, int applied);
+
+    [LoggerMessage(EventId = 1003, Level = LogLevel.Warning, Message = "State database unavailable ({Problem}); retrying in {Seconds:F1} s")]
+    private static partial void LogDatabaseUnavailable(ILogger logger, string problem, double seconds);
+
+    [LoggerMessage(EventId = 1004, Level = LogLevel.Information, Message = "Model {Model}: {Count} missed slot(s) passed over; running slot {Slot:O}")]
+    private static partial void LogPassedOver(ILogger logger, string model, int count, DateTimeOffset slot);
+
+    [LoggerMessage(EventId = 1005, Level = LogLevel.Warning, Message = "Model {Model}: run for slot {Slot:O} abandoned at shutdown; its lease will expire")]
+    private static partial void LogAbandoned(ILogger logger, string model, DateTimeOffset slot);
+
+    [LoggerMessage(EventId = 1006, Level = LogLevel.Error, Message = "Model {Model}: run for slot {Slot:O} could not be recorded; it will be retried after the lease expires")]
+    private static partial void LogRunCrashed(ILogger logger, Exception exception, string model, DateTimeOffset slot);
+
+    [LoggerMessage(EventId = 1007, Level = LogLevel.Information, Message = "Worker {WorkerId} stopped; {Released} lease(s) released")]
+    private static partial void LogStopped(ILogger logger, string workerId, int released);
+
+    [LoggerMessage(EventId = 1008, Level = LogLevel.Warning, Message = "Leases could not be released at shutdown ({Problem}); they expire by themselves")]
+    private static partial void LogReleaseFailed(ILogger logger, string problem);
+}
