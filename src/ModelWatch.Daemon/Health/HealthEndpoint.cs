@@ -18,20 +18,33 @@ public sealed partial class HealthEndpoint(
     IOptions<DaemonOptions> daemon,
     ILogger<HealthEndpoint> logger) : BackgroundService
 {
+    private HttpListener? _listener;
+
+    /// <summary>Binds the port before the host finishes starting, so a port conflict stops the daemon at boot.</summary>
+    public override Task StartAsync(CancellationToken cancellationToken)
+    {
+        HealthOptions settings = options.Value;
+        if (settings.Enabled)
+        {
+            string host = settings.Address is "*" or "0.0.0.0" ? "+" : settings.Address;
+            _listener = new HttpListener();
+            _listener.Prefixes.Add($"http://{host}:{settings.Port}/");
+            _listener.Start();
+            LogListening(logger, settings.Address, settings.Port);
+        }
+
+        return base.StartAsync(cancellationToken);
+    }
+
     /// <inheritdoc />
     protected override async Task ExecuteAsync(CancellationToken stoppingToken)
     {
-        HealthOptions settings = options.Value;
-        if (!settings.Enabled)
+        if (_listener is not { } listener)
         {
             return;
         }
 
-        using var listener = new HttpListener();
-        string host = settings.Address is "*" or "0.0.0.0" ? "+" : settings.Address;
-        listener.Prefixes.Add($"http://{host}:{settings.Port}/");
-        listener.Start();
-        LogListening(logger, settings.Address, settings.Port);
+        HealthOptions settings = options.Value;
         using CancellationTokenRegistration stop = stoppingToken.Register(listener.Stop);
         while (!stoppingToken.IsCancellationRequested)
         {
@@ -47,6 +60,13 @@ public sealed partial class HealthEndpoint(
 
             Respond(context, settings);
         }
+    }
+
+    /// <inheritdoc />
+    public override void Dispose()
+    {
+        _listener?.Close();
+        base.Dispose();
     }
 
     private void Respond(HttpListenerContext context, HealthOptions settings)
