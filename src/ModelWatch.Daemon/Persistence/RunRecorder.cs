@@ -31,22 +31,26 @@ public sealed class RunRecorder(NpgsqlDataSource state, TimeSpan commandTimeout)
         RETURNING id
         """;
 
-    private const string InsertFindingSql = """
+    // Findings and states go in one statement each (arrays unnested server-side): a run writes dozens of rows,
+    // and a round trip per row was most of the daemon's per-run overhead.
+    private const string InsertFindingsSql = """
         INSERT INTO modelwatch.finding (run_id, check_name, subject, statistic, value, p_value, threshold, effect_size, severity, explanation, details)
-        VALUES (@RunId, @Check, @Subject, @Statistic, @Value, @PValue, @Threshold, @EffectSize, @Severity, @Explanation, @Details::jsonb)
+        SELECT @runId, f.check_name, f.subject, f.statistic, f.value, f.p_value, f.threshold, f.effect_size, f.severity, f.explanation, f.details::jsonb
+          FROM unnest(@checks, @subjects, @statistics, @values, @pValues, @thresholds, @effects, @severities, @explanations, @details)
+               AS f(check_name, subject, statistic, value, p_value, threshold, effect_size, severity, explanation, details)
         ON CONFLICT DO NOTHING
         """;
 
-    private const string UpsertCheckStateSql = """
+    private const string UpsertCheckStatesSql = """
         INSERT INTO modelwatch.check_state (model_key, check_name, subject, state, last_run_id, updated_at)
-        VALUES (@key, @check, NULL, @state::jsonb, @runId, @now)
+        SELECT @key, s.check_name, NULL, s.state::jsonb, @runId, @now FROM unnest(@checks, @states) AS s(check_name, state)
         ON CONFLICT (model_key, check_name, subject) DO UPDATE
            SET state = EXCLUDED.state, last_run_id = EXCLUDED.last_run_id, updated_at = EXCLUDED.updated_at
         """;
 
-    private const string UpsertPolicyStateSql = """
+    private const string UpsertPolicyStatesSql = """
         INSERT INTO modelwatch.alert_policy_state (model_key, check_name, subject, state, updated_at)
-        VALUES (@key, @check, @subject, @state::jsonb, @now)
+        SELECT @key, s.check_name, s.subject, s.state::jsonb, @now FROM unnest(@checks, @subjects, @states) AS s(check_name, subject, state)
         ON CONFLICT (model_key, check_name, subject) DO UPDATE SET state = EXCLUDED.state, updated_at = EXCLUDED.updated_at
         """;
 
@@ -88,34 +92,52 @@ public sealed class RunRecorder(NpgsqlDataSource state, TimeSpan commandTimeout)
             return new RecordedRun(null, [], LeaseLost: false, AlreadyRecorded: true);
         }
 
-        foreach (CheckResult result in outcome.Results)
+        List<FindingRow> findings = [.. outcome.Results.SelectMany(r => r.Findings).Select(f => FindingRow.From(runId.Value, f))];
+        if (findings.Count > 0)
         {
-            foreach (Finding finding in result.Findings)
+            await connection.ExecuteAsync(Command(InsertFindingsSql, new
             {
-                await connection.ExecuteAsync(Command(InsertFindingSql, FindingRow.From(runId.Value, finding)));
-            }
+                runId,
+                checks = findings.Select(f => f.Check).ToArray(),
+                subjects = findings.Select(f => f.Subject).ToArray(),
+                statistics = findings.Select(f => f.Statistic).ToArray(),
+                values = findings.Select(f => f.Value).ToArray(),
+                pValues = findings.Select(f => f.PValue).ToArray(),
+                thresholds = findings.Select(f => f.Threshold).ToArray(),
+                effects = findings.Select(f => f.EffectSize).ToArray(),
+                severities = findings.Select(f => f.Severity).ToArray(),
+                explanations = findings.Select(f => f.Explanation).ToArray(),
+                details = findings.Select(f => f.Details).ToArray(),
+            }));
+        }
 
-            await connection.ExecuteAsync(Command(UpsertCheckStateSql, new
+        if (outcome.Results.Count > 0)
+        {
+            await connection.ExecuteAsync(Command(UpsertCheckStatesSql, new
             {
                 key = outcome.ModelKey,
-                check = result.Check,
-                state = JsonSerializer.Serialize(result.State, StateJson.Options),
+                checks = outcome.Results.Select(r => r.Check).ToArray(),
+                states = outcome.Results.Select(r => JsonSerializer.Serialize(r.State, StateJson.Options)).ToArray(),
                 runId,
                 now,
             }));
         }
 
-        var transitions = new List<AlertEvent>();
-        foreach (AlertDecision decision in outcome.Decisions)
+        if (outcome.Decisions.Count > 0)
         {
-            await connection.ExecuteAsync(Command(UpsertPolicyStateSql, new
+            await connection.ExecuteAsync(Command(UpsertPolicyStatesSql, new
             {
                 key = outcome.ModelKey,
-                check = decision.Check,
-                subject = decision.Subject,
-                state = JsonSerializer.Serialize(decision.State, StateJson.Options),
+                checks = outcome.Decisions.Select(d => d.Check).ToArray(),
+                subjects = outcome.Decisions.Select(d => d.Subject).ToArray(),
+                states = outcome.Decisions.Select(d => JsonSerializer.Serialize(d.State, StateJson.Options)).ToArray(),
                 now,
             }));
+        }
+
+        var transitions = new List<AlertEvent>();
+        foreach (AlertDecision decision in outcome.Decisions.Where(d => d.Action != AlertAction.None))
+        {
             AlertEvent? transition = await AlertTransitions.ApplyAsync(connection, transaction, Seconds, outcome.ModelKey, decision, runId.Value, "daemon:" + worker, now, cancellationToken);
             if (transition is not null)
             {
