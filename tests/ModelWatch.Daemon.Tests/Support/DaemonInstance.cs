@@ -53,6 +53,10 @@ internal sealed class DaemonInstance : IAsyncDisposable
 
     public Task StartAsync() => _scheduler.StartAsync(CancellationToken.None);
 
+    /// <summary>Starts the notification dispatcher too (most tests need only the scheduler).</summary>
+    public Task StartNotificationsAsync() =>
+        _services.GetServices<IHostedService>().OfType<ModelWatch.Daemon.Notifications.NotificationDispatcher>().Single().StartAsync(CancellationToken.None);
+
     /// <summary>Waits (for work, not for a schedule) until the loop has completed a cycle at or after the fake clock's present.</summary>
     public async Task WaitForCycleAsync(TimeProvider time)
     {

@@ -46,7 +46,7 @@ internal static class DaemonTestData
         await command.ExecuteNonQueryAsync();
     }
 
-    public static string Yaml(string key, string? query = null) => $"""
+    public static string Yaml(string key, string? query = null, string notify = "[]") => $"""
         key: {key}
         description: Parcel handling minutes (invented test data)
         query: |
@@ -57,17 +57,18 @@ internal static class DaemonTestData
         schedule: 1h
         window: 2h
         min_rows: 20
+        notify: {notify}
         """;
 
     /// <summary>Registers a model and fits its baseline on the reference day.</summary>
-    public static Task RegisterAsync(PostgresDatabase database, TimeProvider time, string key, string? query = null, bool fitBaseline = true) =>
-        RegisterAsync(database.DataSource, database.ConnectionString, time, key, query, fitBaseline);
+    public static Task RegisterAsync(PostgresDatabase database, TimeProvider time, string key, string? query = null, bool fitBaseline = true, string notify = "[]") =>
+        RegisterAsync(database.DataSource, database.ConnectionString, time, key, query, fitBaseline, notify);
 
     /// <inheritdoc cref="RegisterAsync(PostgresDatabase, TimeProvider, string, string?, bool)"/>
-    public static async Task RegisterAsync(NpgsqlDataSource source, string connectionString, TimeProvider time, string key, string? query = null, bool fitBaseline = true)
+    public static async Task RegisterAsync(NpgsqlDataSource source, string connectionString, TimeProvider time, string key, string? query = null, bool fitBaseline = true, string notify = "[]")
     {
         var problems = new List<SpecProblem>();
-        ModelSpec spec = ModelSpecValidator.FromYaml(key + ".yaml", Yaml(key, query), problems) ?? throw new ModelSpecException(problems);
+        ModelSpec spec = ModelSpecValidator.FromYaml(key + ".yaml", Yaml(key, query, notify), problems) ?? throw new ModelSpecException(problems);
         await new ModelRepository(source, time, CommandTimeout).ApplyAsync([(spec, null)], prune: false, CancellationToken.None);
         if (fitBaseline)
         {
