@@ -26,6 +26,8 @@ public sealed partial class RunCompletion(
     TimeProvider time,
     ILogger<RunCompletion> logger)
 {
+    private readonly System.Collections.Concurrent.ConcurrentDictionary<string, (int Warnings, int Criticals, DateTimeOffset Counted)> _openAlerts = new(StringComparer.Ordinal);
+
     /// <summary>Records the outcome and publishes what it changed; returns what was recorded.</summary>
     public async Task<RecordedRun> CompleteAsync(ModelRecord model, RunOutcome outcome, DateTimeOffset nextDue, CancellationToken cancellationToken)
     {
@@ -61,7 +63,12 @@ public sealed partial class RunCompletion(
 
         if (outcome.Gauges is { } gauges)
         {
-            (int warnings, int criticals) = await OpenAlertsAsync(outcome.ModelKey, cancellationToken);
+            // Open-alert counts change with a transition, or with an operator's command elsewhere: count them after a
+            // transition, and otherwise at most every five minutes per model.
+            (int warnings, int criticals, DateTimeOffset counted) = recorded.Transitions.Count > 0 || !_openAlerts.TryGetValue(outcome.ModelKey, out var known) || now - known.Counted > TimeSpan.FromMinutes(5)
+                ? (await OpenAlertsAsync(outcome.ModelKey, cancellationToken) is var c ? (c.Warnings, c.Criticals, now) : default)
+                : known;
+            _openAlerts[outcome.ModelKey] = (warnings, criticals, counted);
             metrics.Update(outcome.ModelKey, gauges with { OpenWarnings = warnings, OpenCriticals = criticals });
         }
 

@@ -22,7 +22,7 @@ namespace ModelWatch.Daemon.Execution;
 /// </summary>
 public sealed class RunPipeline(
     StoreDataSources databases,
-    BaselineRepository baselines,
+    BaselineCache baselines,
     RunRecorder recorder,
     WindowReader reader,
     TimeProvider time)
@@ -49,7 +49,7 @@ public sealed class RunPipeline(
             return outcome with { Status = "skipped", Reason = (model.BaselineVersion is null ? "no_baseline: " : "baseline_incompatible: ") + problem };
         }
 
-        StoredBaseline? baseline = await baselines.GetCurrentAsync(spec.Key, cancellationToken);
+        StoredBaseline? baseline = await baselines.GetAsync(spec.Key, model.BaselineVersion!.Value, cancellationToken);
         if (baseline is null)
         {
             return outcome with { Status = "skipped", Reason = "no_baseline: the baseline disappeared while the run started" };

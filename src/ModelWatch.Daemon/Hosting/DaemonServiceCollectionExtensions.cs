@@ -56,6 +56,7 @@ public static class DaemonServiceCollectionExtensions
         services.TryAddSingleton(sp => new LeaseRepository(sp.GetRequiredService<NpgsqlDataSource>(), StateCommandTimeout));
         services.TryAddSingleton(sp => new RunRecorder(sp.GetRequiredService<NpgsqlDataSource>(), StateCommandTimeout));
         services.TryAddSingleton(_ => new WindowReader(new WindowReadOptions()));
+        services.TryAddSingleton<BaselineCache>();
         services.TryAddSingleton<RunPipeline>();
         services.TryAddSingleton<RunCompletion>();
         services.TryAddSingleton<DaemonHealth>();

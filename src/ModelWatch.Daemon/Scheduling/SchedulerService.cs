@@ -32,6 +32,7 @@ public sealed partial class SchedulerService(
 {
     private readonly Random _jitter = new();
     private readonly SemaphoreSlim _runFinished = new(0);
+    private DateTimeOffset _nextScheduleScan = DateTimeOffset.MinValue;
     private readonly HashSet<Task> _inFlight = [];
     private readonly Lock _gate = new();
 
@@ -56,7 +57,13 @@ public sealed partial class SchedulerService(
                     migrated = true;
                 }
 
-                await ScheduleNewModelsAsync(stoppingToken);
+                // New models are rare: look for them once per poll, not on every wake after a finished run.
+                if (time.GetUtcNow() >= _nextScheduleScan)
+                {
+                    await ScheduleNewModelsAsync(stoppingToken);
+                    _nextScheduleScan = time.GetUtcNow() + settings.PollInterval;
+                }
+
                 int free = settings.Concurrency - InFlightCount;
                 if (free > 0)
                 {
