@@ -1,6 +1,6 @@
 using System.CommandLine;
-using System.Globalization;
 using System.Text.Json;
+using ModelWatch.Cli.Output;
 using ModelWatch.Store.Models;
 
 namespace ModelWatch.Cli.Commands;
@@ -18,7 +18,7 @@ internal static class ModelListCommand
             IReadOnlyList<ModelRecord> models = await new ModelRepository(databases.State, TimeProvider.System, StoreCommandRunner.CommandTimeout).ListAsync(ct);
             if (parse.GetValue(format) == OutputFormat.Json)
             {
-                WriteJson(output, writer =>
+                CliJson.Write(output, writer =>
                 {
                     writer.WriteStartArray();
                     foreach (ModelRecord model in models)
@@ -36,7 +36,7 @@ internal static class ModelListCommand
             {
                 m.Key, m.Enabled ? "yes" : "no", m.Spec.Schedule.Text, m.Spec.Window.ToString(), m.Spec.Source ?? "(state)",
                 m.BaselineVersion is null ? "none" : m.HasCompatibleBaseline ? $"v{m.BaselineVersion}" : $"v{m.BaselineVersion} (incompatible)",
-                Time(m.NextDueSlot) ?? "-",
+                CliJson.Time(m.NextDueSlot) ?? "-",
             })];
             int[] widths = [.. Enumerable.Range(0, header.Length).Select(c => rows.Max(r => r[c].Length))];
             foreach (string[] row in rows)
@@ -67,16 +67,16 @@ internal static class ModelListCommand
 
             if (parse.GetValue(format) == OutputFormat.Json)
             {
-                WriteJson(output, writer => WriteModel(writer, model, withSpec: true));
+                CliJson.Write(output, writer => WriteModel(writer, model, withSpec: true));
                 return ExitCodes.Ok;
             }
 
             output.WriteLine($"model:     {model.Key}{(model.Enabled ? string.Empty : " (disabled)")}");
             output.WriteLine($"design:    {model.Spec.DesignSignature}");
             output.WriteLine($"source:    {model.Spec.Source ?? "(state database)"}");
-            output.WriteLine($"schedule:  {model.Spec.Schedule.Text}, window {model.Spec.Window}, label delay {model.Spec.LabelDelay}, next due {Time(model.NextDueSlot) ?? "-"}");
+            output.WriteLine($"schedule:  {model.Spec.Schedule.Text}, window {model.Spec.Window}, label delay {model.Spec.LabelDelay}, next due {CliJson.Time(model.NextDueSlot) ?? "-"}");
             output.WriteLine($"baseline:  {(model.BaselineProblem is { } problem ? problem : $"version {model.BaselineVersion}")}");
-            output.WriteLine($"lease:     {(model.LeaseOwner is null ? "-" : $"{model.LeaseOwner} until {Time(model.LeaseExpiresAt)}")}");
+            output.WriteLine($"lease:     {(model.LeaseOwner is null ? "-" : $"{model.LeaseOwner} until {CliJson.Time(model.LeaseExpiresAt)}")}");
             output.WriteLine($"spec file: {model.SourceFile ?? "-"}");
             output.WriteLine($"query:     {model.Spec.Query.ReplaceLineEndings(Environment.NewLine + "           ")}");
             return ExitCodes.Ok;
@@ -103,10 +103,10 @@ internal static class ModelListCommand
         }
 
         writer.WriteBoolean("baseline_compatible", model.HasCompatibleBaseline);
-        writer.WriteString("next_due_slot", Time(model.NextDueSlot));
+        writer.WriteString("next_due_slot", CliJson.Time(model.NextDueSlot));
         writer.WriteString("lease_owner", model.LeaseOwner);
-        writer.WriteString("lease_expires_at", Time(model.LeaseExpiresAt));
-        writer.WriteString("updated_at", Time(model.UpdatedAt));
+        writer.WriteString("lease_expires_at", CliJson.Time(model.LeaseExpiresAt));
+        writer.WriteString("updated_at", CliJson.Time(model.UpdatedAt));
         if (withSpec)
         {
             writer.WritePropertyName("spec");
@@ -116,18 +116,4 @@ internal static class ModelListCommand
 
         writer.WriteEndObject();
     }
-
-    private static void WriteJson(TextWriter output, Action<Utf8JsonWriter> write)
-    {
-        using var buffer = new MemoryStream();
-        using (var writer = new Utf8JsonWriter(buffer, new JsonWriterOptions { Indented = true }))
-        {
-            write(writer);
-        }
-
-        output.WriteLine(System.Text.Encoding.UTF8.GetString(buffer.ToArray()));
-    }
-
-    private static string? Time(DateTimeOffset? value) =>
-        value?.UtcDateTime.ToString("yyyy-MM-dd'T'HH:mm:ss'Z'", CultureInfo.InvariantCulture);
 }
