@@ -1,5 +1,6 @@
 using Microsoft.Extensions.Time.Testing;
 using ModelWatch.Daemon.Tests.Support;
+using ModelWatch.Store.Local;
 using ModelWatch.Testing.Postgres;
 using Npgsql;
 

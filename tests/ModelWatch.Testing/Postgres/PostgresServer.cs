@@ -1,3 +1,4 @@
+using ModelWatch.Store.Local;
 using Npgsql;
 using Testcontainers.PostgreSql;
 
@@ -52,7 +53,7 @@ public sealed class PostgresServer
         }
 
         var problems = new List<string> { $"{EnvironmentVariable} is not set" };
-        if (DockerMayAnswer())
+        if (DockerEngine.MayAnswer())
         {
             try
             {
@@ -84,31 +85,6 @@ public sealed class PostgresServer
             "No PostgreSQL server for the tests: " + string.Join("; ", problems) + ". " +
             $"Set {EnvironmentVariable} to a superuser connection string (e.g. Host=127.0.0.1;Port=5432;Username=postgres), " +
             "start a Docker engine, or install the PostgreSQL server (apt-get install postgresql).");
-    }
-
-    private static bool DockerMayAnswer()
-    {
-        if (!string.IsNullOrEmpty(Environment.GetEnvironmentVariable("DOCKER_HOST")))
-        {
-            return true;
-        }
-
-        const string socket = "/var/run/docker.sock";
-        if (!File.Exists(socket))
-        {
-            return false;
-        }
-
-        try
-        {
-            using var probe = new System.Net.Sockets.Socket(System.Net.Sockets.AddressFamily.Unix, System.Net.Sockets.SocketType.Stream, System.Net.Sockets.ProtocolType.Unspecified);
-            probe.Connect(new System.Net.Sockets.UnixDomainSocketEndPoint(socket));
-            return true;
-        }
-        catch (System.Net.Sockets.SocketException)
-        {
-            return false;
-        }
     }
 
     /// <summary>Opens a data source on a database of this server.</summary>

@@ -2,12 +2,12 @@ using System.Diagnostics;
 using System.Net;
 using System.Net.Sockets;
 
-namespace ModelWatch.Testing.Postgres;
+namespace ModelWatch.Store.Local;
 
 /// <summary>
 /// A PostgreSQL cluster created with <c>initdb</c> in a temporary folder and started with <c>pg_ctl</c> on a free
 /// loopback port; run as the <c>postgres</c> user when the current user is root (initdb refuses root).
-/// Tests that restart or stop the database use their own instance; the shared one stays up.
+/// The demo runs on one; tests use one as their shared server, and tests that restart or stop the database use their own.
 /// </summary>
 public sealed class ThrowawayCluster : IAsyncDisposable
 {
