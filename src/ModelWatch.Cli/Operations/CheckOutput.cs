@@ -1,0 +1,52 @@
+using System.Globalization;
+using System.Text.Json;
+using ModelWatch.Cli.Output;
+using ModelWatch.Daemon.Execution;
+
+namespace ModelWatch.Cli.Operations;
+
+/// <summary>Prints the result of <c>check</c>: exactly the documented JSON fields, or a table for people.</summary>
+internal static class CheckOutput
+{
+    public static void WriteJson(Utf8JsonWriter writer, RunOutcome outcome, IReadOnlyList<FindingLine> findings)
+    {
+        writer.WriteStartObject();
+        writer.WriteString("model", outcome.ModelKey);
+        writer.WriteString("slot", CliJson.Time(outcome.Slot));
+        writer.WriteStartObject("window");
+        writer.WriteString("start", CliJson.Time(outcome.WindowStart));
+        writer.WriteString("end", CliJson.Time(outcome.WindowEnd));
+        writer.WriteEndObject();
+        writer.WriteString("status", outcome.Status);
+        writer.WriteString("reason", outcome.Reason);
+        writer.WriteNumber("rows", outcome.RowsRead);
+        FindingLine.WriteArray(writer, findings);
+        writer.WriteEndObject();
+    }
+
+    public static void WriteTable(TextWriter output, RunOutcome outcome, IReadOnlyList<FindingLine> findings, IReadOnlyDictionary<string, int> skipped)
+    {
+        string worst = FindingLine.Worst(findings) is { } w ? FindingLine.NameOf(w) : "-";
+        output.WriteLine($"model {outcome.ModelKey}, slot {CliJson.Time(outcome.Slot)}, window {CliJson.Time(outcome.WindowStart)} → {CliJson.Time(outcome.WindowEnd)}");
+        output.WriteLine(string.Create(CultureInfo.InvariantCulture, $"status {outcome.Status}{(outcome.Reason is null ? string.Empty : " (" + outcome.Reason + ")")}, {outcome.RowsRead} row(s) read, {outcome.RowsRejected} rejected, worst severity {worst}"));
+        if (findings.Count > 0)
+        {
+            output.WriteLine();
+            List<string[]> rows = [["CHECK", "SUBJECT", "SEVERITY", "STATISTIC", "VALUE", "THRESHOLD", "EXPLANATION"]];
+            rows.AddRange(findings.Select(f => new[]
+            {
+                f.Check, f.Subject ?? "-", f.SeverityName, f.Statistic, Number(f.Value), Number(f.Threshold), f.Explanation,
+            }));
+            Terminal.WriteTable(output, rows);
+        }
+
+        if (skipped.Count > 0)
+        {
+            output.WriteLine();
+            output.WriteLine("skipped tests: " + string.Join(", ", skipped.Select(s => string.Create(CultureInfo.InvariantCulture, $"{s.Value} {s.Key}"))));
+        }
+    }
+
+    public static string Number(double? value) =>
+        value is { } v && double.IsFinite(v) ? v.ToString("G4", CultureInfo.InvariantCulture) : "-";
+}
