@@ -8,7 +8,8 @@ internal static class FindingText
 {
     public static string Num(double v) => double.IsFinite(v) ? v.ToString("G3", CultureInfo.InvariantCulture) : "n/a";
 
-    public static string Pct(double share) => double.IsFinite(share) ? (100.0 * share).ToString("F0", CultureInfo.InvariantCulture) + " %" : "n/a";
+    // Rounding first keeps a tiny negative share from printing as "-0 %".
+    public static string Pct(double share) => double.IsFinite(share) ? (Math.Round(100.0 * share) + 0.0).ToString("F0", CultureInfo.InvariantCulture) + " %" : "n/a";
 
     public static string P(double p) =>
         double.IsNaN(p) ? "p n/a"

@@ -1,0 +1,150 @@
+using System.Net;
+using System.Runtime.CompilerServices;
+using System.Text.Json;
+using System.Text.RegularExpressions;
+using ModelWatch.Cli.Reports;
+using ModelWatch.Testing.Postgres;
+using Xunit.Abstractions;
+
+namespace ModelWatch.Cli.Tests.Explain;
+
+/// <summary>
+/// <c>modelwatch explain</c> on a real PostgreSQL, over runs, findings and alerts the real daemon recorded for the
+/// invented ferry scenario; the HTML report rendered in headless Chromium.
+/// </summary>
+public sealed partial class ExplainCommandTests(PostgresDatabase database, ITestOutputHelper log) : IClassFixture<PostgresDatabase>
+{
+    // The daemon runs once per database (one per test class), however many tests ask for it.
+    private static readonly ConditionalWeakTable<PostgresDatabase, Task> Scenarios = [];
+
+    private const string Measure = """
+        <script>
+        (function () {
+          var charts = [];
+          document.querySelectorAll('figure.chart').forEach(function (figure) {
+            var shapes = 0, sized = 0;
+            figure.querySelectorAll('svg .data').forEach(function (shape) {
+              var box = shape.getBoundingClientRect();
+              shapes++;
+              if (box.width > 0 && box.height > 0) { sized++; }
+            });
+            var svg = figure.querySelector('svg').getBoundingClientRect();
+            charts.push({ chart: figure.dataset.chart, shapes: shapes, sized: sized, width: svg.width, height: svg.height });
+          });
+          var pre = document.createElement('pre');
+          pre.id = 'measured';
+          pre.textContent = JSON.stringify(charts);
+          document.body.appendChild(pre);
+        })();
+        </script>
+        """;
+
+    [Fact]
+    public async Task Explain_an_alert_prints_what_moved_the_decomposition_the_features_and_the_runbook()
+    {
+        long alert = await CoefficientsAlertAsync();
+
+        CliRun run = await FerryScenario.Cli(database, "explain", alert.ToString(System.Globalization.CultureInfo.InvariantCulture));
+        log.WriteLine(run.Output);
+
+        Assert.True(run.ExitCode == 0, run.Error);
+        Assert.StartsWith($"alert {alert}: model {FerryScenario.Key}, check coefficients, subject model, critical, open", run.Output, StringComparison.Ordinal);
+        Assert.Matches(@"What moved \(\d+ critical finding\(s\) in run \d+\):", run.Output);
+        Assert.Contains("[critical] coefficients wald (model): all coefficients against the deployed ones", run.Output, StringComparison.Ordinal);
+        Assert.Contains("[critical] coefficients z (trucks): coefficient of trucks moved from", run.Output, StringComparison.Ordinal);
+        Assert.Matches(@"of the error increase over baseline: noise -?\d+ %, level drift -?\d+ %, slope drift \d+ %", run.Output);
+        Assert.Matches(@"Features involved: trucks\b", run.Output);
+        Assert.Contains("Runbook, coefficients:", run.Output, StringComparison.Ordinal);
+        Assert.Contains(RunbookHints.For("coefficients")!.Action, run.Output, StringComparison.Ordinal);
+        Assert.Contains(RunbookHints.Caution, run.Output, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public async Task Explain_a_run_prints_its_window_and_findings()
+    {
+        await ScenarioAsync();
+        long first = await FerryScenario.ScalarAsync(database, $"SELECT min(id) FROM modelwatch.run WHERE model_key = '{FerryScenario.Key}'");
+        long last = await FerryScenario.ScalarAsync(database, $"SELECT last_run_id FROM modelwatch.alert WHERE model_key = '{FerryScenario.Key}' AND check_name = 'coefficients' AND subject IS NULL");
+
+        CliRun before = await FerryScenario.Cli(database, "explain", first.ToString(System.Globalization.CultureInfo.InvariantCulture));
+        CliRun after = await FerryScenario.Cli(database, "explain", last.ToString(System.Globalization.CultureInfo.InvariantCulture));
+        log.WriteLine(before.Output);
+
+        Assert.True(before.ExitCode == 0, before.Error);
+        Assert.StartsWith($"run {first}: model {FerryScenario.Key}", before.Output, StringComparison.Ordinal);
+        Assert.Matches($@"\n  run {first}: window 2026-04-0\dT\d\d:00:00Z → 2026-04-0\dT\d\d:00:00Z, ok, 60 rows\n", before.Output);
+        Assert.DoesNotContain("[critical]", before.Output, StringComparison.Ordinal);
+        Assert.True(after.ExitCode == 0, after.Error);
+        Assert.StartsWith($"run {last}: model {FerryScenario.Key}", after.Output, StringComparison.Ordinal);
+        Assert.Contains("[critical] coefficients wald (model)", after.Output, StringComparison.Ordinal);
+        Assert.Contains(RunbookHints.Caution, after.Output, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public async Task Explain_an_id_that_names_nothing_exits_3()
+    {
+        await ScenarioAsync();
+        long unused = await FerryScenario.ScalarAsync(database, "SELECT last_value + 1000 FROM modelwatch.object_id");
+
+        CliRun run = await FerryScenario.Cli(database, "explain", unused.ToString(System.Globalization.CultureInfo.InvariantCulture));
+
+        Assert.Equal(ExitCodes.RuntimeError, run.ExitCode);
+        Assert.Contains($"no alert or run has id {unused}", run.Error, StringComparison.Ordinal);
+        Assert.Equal(string.Empty, run.Output);
+    }
+
+    [Fact]
+    public async Task The_html_report_draws_every_chart_in_headless_chromium()
+    {
+        string chromium = HeadlessChromium.Executable;
+        long alert = await CoefficientsAlertAsync();
+        string folder = Path.Combine(AppContext.BaseDirectory, "evidence-report");
+        Directory.CreateDirectory(folder);
+        string report = Path.Combine(folder, "report.html");
+
+        CliRun run = await FerryScenario.Cli(database, "explain", alert.ToString(System.Globalization.CultureInfo.InvariantCulture), "--html", report);
+        string html = await File.ReadAllTextAsync(report);
+        string measured = Path.Combine(folder, "measured.html");
+        await File.WriteAllTextAsync(measured, html.Replace("</body>", Measure + "</body>", StringComparison.Ordinal));
+        string dom = await HeadlessChromium.DumpDomAsync(measured);
+        await HeadlessChromium.ScreenshotAsync(report, Path.Combine(folder, "report.png"), 1200, 2400);
+
+        Assert.True(run.ExitCode == 0, chromium + ": " + run.Error);
+        Assert.Contains("report: " + report, run.Output, StringComparison.Ordinal);
+        Assert.DoesNotMatch(@"<script|https?://|\burl\(|@import|<link|\bsrc=", html);
+        Assert.Contains(WebUtility.HtmlEncode(RunbookHints.Caution), html, StringComparison.Ordinal);
+        Match result = MeasuredRegex().Match(dom);
+        Assert.True(result.Success, "the measuring script wrote nothing: " + dom[..Math.Min(dom.Length, 500)]);
+        using JsonDocument charts = JsonDocument.Parse(WebUtility.HtmlDecode(result.Groups[1].Value));
+        var byKind = charts.RootElement.EnumerateArray().GroupBy(c => c.GetProperty("chart").GetString()!).ToDictionary(g => g.Key, g => g.ToList());
+        Assert.Equal(["coefficient", "condition", "decomposition", "error", "psi", "residuals"], byKind.Keys.Order(StringComparer.Ordinal));
+        Assert.Equal(4, byKind["coefficient"].Count);
+        foreach (JsonElement chart in charts.RootElement.EnumerateArray())
+        {
+            string name = chart.GetProperty("chart").GetString()!;
+            Assert.True(chart.GetProperty("width").GetDouble() > 250 && chart.GetProperty("height").GetDouble() > 100, $"{name}: the chart has no size ({chart})");
+            Assert.True(chart.GetProperty("sized").GetInt32() >= 3, $"{name}: fewer than 3 data shapes of non-zero size ({chart})");
+        }
+
+        // The residual chart shows both the baseline's bars and this window's curve; the PSI chart one bar per feature.
+        Assert.True(byKind["residuals"][0].GetProperty("sized").GetInt32() >= 10);
+        Assert.True(byKind["psi"][0].GetProperty("sized").GetInt32() >= 3);
+    }
+
+    private async Task<long> CoefficientsAlertAsync()
+    {
+        await ScenarioAsync();
+        return await FerryScenario.ScalarAsync(database, $"SELECT id FROM modelwatch.alert WHERE model_key = '{FerryScenario.Key}' AND check_name = 'coefficients' AND subject IS NULL");
+    }
+
+    private Task ScenarioAsync()
+    {
+        lock (Scenarios)
+        {
+            return Scenarios.GetValue(database, FerryScenario.RunAsync);
+        }
+    }
+
+    [GeneratedRegex("<pre id=\"measured\">(.*?)</pre>", RegexOptions.Singleline)]
+    private static partial Regex MeasuredRegex();
+}
