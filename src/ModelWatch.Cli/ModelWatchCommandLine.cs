@@ -17,6 +17,10 @@ public static class ModelWatchCommandLine
         root.Subcommands.Add(DaemonCommand.Create());
         root.Subcommands.Add(RunsCommand.Create());
         root.Subcommands.Add(AlertsCommand.Create());
+        root.Subcommands.Add(ExplainCommand.Create());
+        root.Subcommands.Add(Operations.CheckCommand.Create());
+        root.Subcommands.Add(Operations.BacktestCommand.Create());
+        root.Subcommands.Add(Demo.DemoCommand.Create());
         return root;
     }
 
