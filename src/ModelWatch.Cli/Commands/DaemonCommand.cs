@@ -1,7 +1,9 @@
 using System.CommandLine;
+using Microsoft.Extensions.DependencyInjection;
 using Microsoft.Extensions.Hosting;
 using Microsoft.Extensions.Options;
 using ModelWatch.Daemon.Hosting;
+using ModelWatch.Store.Configuration;
 
 namespace ModelWatch.Cli.Commands;
 
@@ -14,19 +16,15 @@ internal static class DaemonCommand
         var command = new Command("daemon", "Run the monitoring daemon: claim due models, run them, record runs and alerts, emit telemetry") { database };
         command.SetAction(async (parse, cancellationToken) =>
         {
-            IHost host;
+            TextWriter error = parse.InvocationConfiguration.Error;
+            IHost? host = null;
             try
             {
                 host = DaemonHost.Build([], parse.GetValue(database));
-            }
-            catch (Exception ex) when (ex is InvalidOperationException or FormatException)
-            {
-                parse.InvocationConfiguration.Error.WriteLine($"modelwatch daemon: {ex.Message}");
-                return ExitCodes.RuntimeError;
-            }
 
-            try
-            {
+                // Resolve the databases before starting, so a missing connection string is one line, not a host failure.
+                _ = host.Services.GetRequiredService<StoreDataSources>();
+
                 // The host owns SIGTERM and Ctrl+C (its lifetime), so in-flight runs get the full shutdown timeout.
                 await host.RunAsync(CancellationToken.None);
                 return ExitCodes.Ok;
@@ -35,14 +33,19 @@ internal static class DaemonCommand
             {
                 foreach (string failure in ex.Failures)
                 {
-                    parse.InvocationConfiguration.Error.WriteLine($"modelwatch daemon: configuration: {failure}");
+                    error.WriteLine($"modelwatch daemon: configuration: {failure}");
                 }
 
                 return ExitCodes.RuntimeError;
             }
+            catch (Exception ex) when (ex is StoreConfigurationException or InvalidOperationException or FormatException or IOException)
+            {
+                error.WriteLine($"modelwatch daemon: {ex.Message}");
+                return ExitCodes.RuntimeError;
+            }
             finally
             {
-                host.Dispose();
+                host?.Dispose();
             }
         });
         return command;
