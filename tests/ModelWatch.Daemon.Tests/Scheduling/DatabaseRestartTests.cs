@@ -19,7 +19,7 @@ public sealed class DatabaseRestartTests
         await DaemonTestData.PrepareAsync(source, hours: 24 + 30, breakAtHour: 24 + 6);
         var time = new FakeTimeProvider(DaemonTestData.ReferenceEnd);
         await DaemonTestData.RegisterAsync(source, connectionString, time, "parcels-restart");
-        await using var daemon = new DaemonInstance(connectionString, time, "restarting", settings: new Dictionary<string, string?> { ["Daemon:MissedSlots"] = "CatchUp" });
+        await using var daemon = new DaemonInstance(connectionString, time, "restarting", settings: new Dictionary<string, string?> { ["Daemon:MissedSlots"] = "CatchUp", ["Daemon:LeaseDuration"] = "00:10:00" });
         await daemon.StartAsync();
         const string runs = "SELECT count(*) FROM modelwatch.run WHERE model_key = 'parcels-restart'";
         for (int hour = 1; hour <= 8; hour++)

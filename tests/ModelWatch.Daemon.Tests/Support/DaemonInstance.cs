@@ -28,7 +28,9 @@ internal sealed class DaemonInstance : IAsyncDisposable
             ["Daemon:WorkerId"] = workerId,
             ["Daemon:Concurrency"] = concurrency.ToString(System.Globalization.CultureInfo.InvariantCulture),
             ["Daemon:PollInterval"] = "00:01:00",
-            ["Daemon:LeaseDuration"] = "00:10:00",
+            // Longer than the fake clock can race ahead while a run is in flight (StepToAsync nudges it by up to 50 min),
+            // so a lease never expires under a running run here; lease expiry is tested with explicit claims.
+            ["Daemon:LeaseDuration"] = "06:00:00",
         };
         foreach ((string key, string? value) in settings ?? new Dictionary<string, string?>())
         {
