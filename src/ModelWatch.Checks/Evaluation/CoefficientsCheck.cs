@@ -22,7 +22,7 @@ public static class CoefficientsCheck
         CheckState state = input.CurrentState;
         if (!input.FixedSampleDue)
         {
-            return new CheckResult { Check = check, State = state, Findings = [Skip(check, "wald", SkipReasons.NotDue, "window overlaps the last tested window; the coefficient tests run on the next non-overlapping window")] };
+            return NotDue(check, state, "wald", "the coefficient tests run");
         }
 
         FitSummary? fit = input.Window.Fit;

@@ -38,7 +38,7 @@ public static class CollinearityCheck
 
         if (!input.FixedSampleDue)
         {
-            return new CheckResult { Check = check, State = state, Findings = [Skip(check, "vif", SkipReasons.NotDue, "window overlaps the last tested window; collinearity is compared on the next non-overlapping window")] };
+            return NotDue(check, state, "vif", "collinearity is compared");
         }
 
         if (fit is null || input.Window.RowsAccepted < 10L * fit.ParameterCount)

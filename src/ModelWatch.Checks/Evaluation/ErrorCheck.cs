@@ -49,7 +49,7 @@ public static class ErrorCheck
         CheckState state = input.CurrentState;
         if (!input.FixedSampleDue)
         {
-            return new CheckResult { Check = check, State = state, Findings = [Skip(check, "mse_growth", SkipReasons.NotDue, "window overlaps the last tested window; the error test runs on the next non-overlapping window")] };
+            return NotDue(check, state, "mse_growth", "the error test runs");
         }
 
         BaselineReference baseline = input.Baseline;

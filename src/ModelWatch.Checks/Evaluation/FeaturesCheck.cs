@@ -24,7 +24,7 @@ public static class FeaturesCheck
         CheckState state = input.CurrentState;
         if (!input.FixedSampleDue)
         {
-            return new CheckResult { Check = check, State = state, Findings = [Skip(check, "psi", SkipReasons.NotDue, "window overlaps the last tested window; feature tests run on the next non-overlapping window")] };
+            return NotDue(check, state, "psi", "feature tests run");
         }
 
         BaselineReference baseline = input.Baseline;

@@ -93,14 +93,13 @@ internal static class AlertTransitions
                 actor,
                 now,
                 statistic = evidence?.Statistic,
-                value = Finite(evidence?.Value),
-                threshold = Finite(evidence?.Threshold),
+                value = FindingRow.Finite(evidence?.Value),
+                threshold = FindingRow.Finite(evidence?.Threshold),
                 explanation,
             }));
-        return new AlertEvent(alertId, transition, model, decision.Check, decision.Subject, severity, state, evidence?.Statistic ?? "none", Finite(evidence?.Value), Finite(evidence?.Threshold), explanation, now);
+        return new AlertEvent(alertId, transition, model, decision.Check, decision.Subject, severity, state, evidence?.Statistic ?? "none", FindingRow.Finite(evidence?.Value), FindingRow.Finite(evidence?.Threshold), explanation, now);
     }
 
-    private static double? Finite(double? value) => value is { } v && double.IsFinite(v) ? v : null;
 
     private sealed class AlertRow
     {

@@ -57,5 +57,6 @@ internal sealed record FindingRow(
         _ => "ok",
     };
 
-    private static double? Finite(double? value) => value is { } v && double.IsFinite(v) ? v : null;
+    /// <summary>The value, or null when it is missing or not finite (the state tables hold no NaN).</summary>
+    public static double? Finite(double? value) => value is { } v && double.IsFinite(v) ? v : null;
 }
