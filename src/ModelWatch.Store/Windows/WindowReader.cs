@@ -75,14 +75,22 @@ public sealed class WindowReader
         // One failing sub-range cancels its siblings, and its own error (not their cancellation) is what the caller sees.
         using var siblings = CancellationTokenSource.CreateLinkedTokenSource(cancellationToken);
         var tasks = new Task<WindowReadResult<TSink>>[bounds.Length - 1];
+
+        // Sinks are made here, on the caller's thread, so a factory that records what it made need not be thread-safe.
+        TSink[] partSinks = new TSink[tasks.Length];
+        for (int i = 0; i < partSinks.Length; i++)
+        {
+            partSinks[i] = createSink();
+        }
+
         for (int i = 0; i < tasks.Length; i++)
         {
-            (DateTimeOffset from, DateTimeOffset to) = (bounds[i], bounds[i + 1]);
+            (DateTimeOffset from, DateTimeOffset to, TSink partSink) = (bounds[i], bounds[i + 1], partSinks[i]);
             tasks[i] = Task.Run(async () =>
             {
                 try
                 {
-                    return await Guard(spec, () => ReadRangeAsync(source, spec, from, to, newFrom, createSink(), siblings.Token));
+                    return await Guard(spec, () => ReadRangeAsync(source, spec, from, to, newFrom, partSink, siblings.Token));
                 }
                 catch
                 {
