@@ -17,12 +17,31 @@ public static class AndersonDarlingKSample
             throw new ArgumentException("The k-sample Anderson–Darling test needs at least two non-empty samples.", nameof(samples));
         }
 
-        double[][] sorted = samples.Select(s => s.OrderBy(v => v).ToArray()).ToArray();
-        double[] z = sorted.SelectMany(s => s).OrderBy(v => v).ToArray();
+        return ComputeSorted([.. samples.Select(SortedSample.Of)], midrank);
+    }
+
+    /// <summary>Computes the statistic for two or more samples each already sorted ascending (no NaN).</summary>
+    public static AndersonDarlingResult ComputeSorted(IReadOnlyList<double[]> sortedSamples, bool midrank)
+    {
+        ArgumentNullException.ThrowIfNull(sortedSamples);
+        int k = sortedSamples.Count;
+        if (k < 2 || sortedSamples.Any(s => s.Length == 0))
+        {
+            throw new ArgumentException("The k-sample Anderson–Darling test needs at least two non-empty samples.", nameof(sortedSamples));
+        }
+
+        double[] z = new double[sortedSamples.Sum(s => s.Length)];
+        int offset = 0;
+        foreach (double[] s in sortedSamples)
+        {
+            s.CopyTo(z, offset);
+            offset += s.Length;
+        }
+
+        Array.Sort(z);
         int bigN = z.Length;
-        double[] distinct = z.Distinct().ToArray();
-        double a2 = midrank ? Midrank(sorted, z, distinct) : RightContinuous(sorted, z, distinct);
-        double sigma = Math.Sqrt(Variance(sorted.Select(s => s.Length).ToArray(), bigN));
+        double a2 = midrank ? Midrank(sortedSamples, z) : RightContinuous(sortedSamples, z);
+        double sigma = Math.Sqrt(Variance(sortedSamples.Select(s => s.Length).ToArray(), bigN));
         return new AndersonDarlingResult(a2, sigma, (a2 - (k - 1)) / sigma, k, bigN);
     }
 
@@ -55,7 +74,7 @@ public static class AndersonDarlingKSample
         return Math.Min(1.0, Math.Exp(a + (b * standardized) + (c * standardized * standardized)));
     }
 
-    private static double RightContinuous(double[][] samples, double[] z, double[] distinct)
+    private static double RightContinuous(IReadOnlyList<double[]> samples, double[] z)
     {
         double bigN = z.Length;
         double total = 0.0;
@@ -63,11 +82,23 @@ public static class AndersonDarlingKSample
         {
             double inner = 0.0;
             double b = 0.0;
-            for (int j = 0; j < distinct.Length - 1; j++)
+            var pooled = new Cursor(z);
+            var own = new Cursor(s);
+
+            // Every distinct pooled value but the largest, in ascending order.
+            for (int at = 0; at < z.Length; at = pooled.Right)
             {
-                double l = CountRight(z, distinct[j]) - CountLeft(z, distinct[j]);
+                double v = z[at];
+                pooled.MoveTo(v);
+                if (pooled.Right == z.Length)
+                {
+                    break;
+                }
+
+                own.MoveTo(v);
+                double l = pooled.Right - pooled.Left;
                 b += l;
-                double mij = CountRight(s, distinct[j]);
+                double mij = own.Right;
                 double diff = (bigN * mij) - (b * s.Length);
                 inner += l / bigN * diff * diff / (b * (bigN - b));
             }
@@ -78,20 +109,25 @@ public static class AndersonDarlingKSample
         return total;
     }
 
-    private static double Midrank(double[][] samples, double[] z, double[] distinct)
+    private static double Midrank(IReadOnlyList<double[]> samples, double[] z)
     {
         double bigN = z.Length;
         double total = 0.0;
         foreach (double[] s in samples)
         {
             double inner = 0.0;
-            for (int j = 0; j < distinct.Length; j++)
+            var pooled = new Cursor(z);
+            var own = new Cursor(s);
+            for (int at = 0; at < z.Length; at = pooled.Right)
             {
-                double left = CountLeft(z, distinct[j]);
-                double l = CountRight(z, distinct[j]) - left;
+                double v = z[at];
+                pooled.MoveTo(v);
+                own.MoveTo(v);
+                double left = pooled.Left;
+                double l = pooled.Right - left;
                 double b = left + (l / 2.0);
-                double right = CountRight(s, distinct[j]);
-                double f = right - CountLeft(s, distinct[j]);
+                double right = own.Right;
+                double f = right - own.Left;
                 double mij = right - (f / 2.0);
                 double diff = (bigN * mij) - (b * s.Length);
                 inner += l / bigN * diff * diff / ((b * (bigN - b)) - (bigN * l / 4.0));
@@ -131,43 +167,31 @@ public static class AndersonDarlingKSample
         return ((a * bigN * bigN * bigN) + (b * bigN * bigN) + (c * bigN) + d) / ((bigN - 1.0) * (bigN - 2.0) * (bigN - 3.0));
     }
 
-    private static int CountLeft(double[] sorted, double v)
+    /// <summary>
+    /// Walks a sorted array through ascending values: after <see cref="MoveTo"/>, <see cref="Left"/> counts the elements
+    /// below the value and <see cref="Right"/> those at or below it. One pass over all values costs O(length).
+    /// </summary>
+    private struct Cursor(double[] sorted)
     {
-        int lo = 0;
-        int hi = sorted.Length;
-        while (lo < hi)
+        public int Left { get; private set; }
+
+        public int Right { get; private set; }
+
+        public void MoveTo(double value)
         {
-            int mid = (lo + hi) >>> 1;
-            if (sorted[mid] < v)
+            int left = Math.Max(Left, Right);
+            while (left < sorted.Length && sorted[left] < value)
             {
-                lo = mid + 1;
+                left++;
             }
-            else
+
+            int right = left;
+            while (right < sorted.Length && sorted[right] <= value)
             {
-                hi = mid;
+                right++;
             }
+
+            (Left, Right) = (left, right);
         }
-
-        return lo;
-    }
-
-    private static int CountRight(double[] sorted, double v)
-    {
-        int lo = 0;
-        int hi = sorted.Length;
-        while (lo < hi)
-        {
-            int mid = (lo + hi) >>> 1;
-            if (sorted[mid] <= v)
-            {
-                lo = mid + 1;
-            }
-            else
-            {
-                hi = mid;
-            }
-        }
-
-        return lo;
     }
 }

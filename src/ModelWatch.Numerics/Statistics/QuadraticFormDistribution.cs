@@ -6,6 +6,9 @@ namespace ModelWatch.Numerics.Statistics;
 /// </summary>
 public static class QuadraticFormDistribution
 {
+    // Past ρ⁴ = e¹⁰⁰ the integrand is below e⁻²⁵ and only shrinks.
+    private static readonly double StopAt = Math.Exp(100.0);
+
     /// <summary><c>P(Σ λ_i z_i² &gt; 0)</c>.</summary>
     public static double UpperTailAtZero(IReadOnlyList<double> weights)
     {
@@ -16,24 +19,29 @@ public static class QuadraticFormDistribution
         }
 
         // u = e^s turns the integrand into sin θ(u)/ρ(u) ds, smooth and decaying at both ends; below u₀ it is
-        // about u·Σλ/2, so starting there leaves out less than 1e-8.
-        const double step = 0.02;
+        // about u·Σλ/2, so starting there leaves out less than 1e-8. In s the integrand is analytic in the strip
+        // |Im s| < π/2 (atan and log(1 + x²) first branch at λe^s = ±i), so the equally spaced sum converges
+        // geometrically, with an error near e^(−π²/step) (Trefethen & Weideman 2014, SIAM Review 56:385, §5):
+        // about 1e-43 at this step, far below the truncation above, in a fifth of the work of a step of 0.02.
+        const double step = 0.1;
         double scale = weights.Sum(Math.Abs);
         double total = 0.0;
         for (double s = Math.Log(1e-8 / scale); s < 60.0; s += step)
         {
             double u = Math.Exp(s);
             double theta = 0.0;
-            double logRho = 0.0;
+
+            // ρ(u)⁴ = Π (1 + λ²u²) as a product, not a sum of logarithms: the loop stops once it passes e¹⁰⁰, far from overflow.
+            double rho4 = 1.0;
             foreach (double l in weights)
             {
                 theta += Math.Atan(l * u);
-                logRho += Math.Log(1.0 + (l * l * u * u));
+                rho4 *= 1.0 + (l * l * u * u);
             }
 
-            double value = Math.Sin(0.5 * theta) * Math.Exp(-0.25 * logRho);
+            double value = Math.Sin(0.5 * theta) / Math.Sqrt(Math.Sqrt(rho4));
             total += value * step;
-            if (logRho > 100.0)
+            if (rho4 > StopAt)
             {
                 break;
             }

@@ -31,4 +31,29 @@ public sealed class DurbinWatsonBoundsTests
         // P(Q > 0) = E[e^{−3z²/2}] = (1 + 3)^{−1/2} = 0.5.
         Assert.Equal(0.5, QuadraticFormDistribution.UpperTailAtZero([1.0, 1.0, -3.0]), 6);
     }
+
+    [Theory]
+    [InlineData(1.0, 1.0)]
+    [InlineData(4.0, 1.0)]
+    [InlineData(0.01, 3.0)]
+    [InlineData(250.0, 0.2)]
+    public void Imhof_reproduces_the_two_weight_closed_form(double a, double b)
+    {
+        // Exact: a z₁² − b z₂² > 0 ⇔ |z₂/z₁| < √(a/b), and z₂/z₁ is standard Cauchy, so P = (2/π) atan √(a/b).
+        double exact = 2.0 / Math.PI * Math.Atan(Math.Sqrt(a / b));
+        Assert.Equal(exact, QuadraticFormDistribution.UpperTailAtZero([a, -b]), 1e-8);
+    }
+
+    [Theory]
+    [InlineData(3, 2.5)]
+    [InlineData(10, 30.0)]
+    [InlineData(40, 90.0)]
+    public void Imhof_reproduces_an_f_tail(int k, double c)
+    {
+        // Exact: Σ₁..k zᵢ² − c z₀² > 0 ⇔ F(k, 1) = (χ²ₖ/k)/(z₀²) > c/k; the tail is MathNet's regularized incomplete beta.
+        double x = c / k;
+        double exact = 1.0 - MathNet.Numerics.Distributions.FisherSnedecor.CDF(k, 1, x);
+        double[] weights = [.. Enumerable.Repeat(1.0, k), -c];
+        Assert.Equal(exact, QuadraticFormDistribution.UpperTailAtZero(weights), 1e-8);
+    }
 }
