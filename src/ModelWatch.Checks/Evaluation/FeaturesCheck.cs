@@ -37,7 +37,7 @@ public static class FeaturesCheck
         for (int j = 0; j < q; j++)
         {
             bool canKs = j < baseline.FeatureSamples.Count && baseline.FeatureSamples[j].Length >= 20 && window.FeatureSamples[j].Length >= 20;
-            ks[j] = canKs ? KolmogorovSmirnov.TwoSample(baseline.FeatureSamples[j], window.FeatureSamples[j]) : null;
+            ks[j] = canKs ? KolmogorovSmirnov.TwoSampleSorted(baseline.SortedFeatureSamples[j], SortedSample.Of(window.FeatureSamples[j])) : null;
             ksP[j] = ks[j]?.PValue ?? double.NaN;
         }
 

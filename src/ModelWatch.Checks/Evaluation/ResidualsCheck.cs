@@ -152,7 +152,7 @@ public static class ResidualsCheck
             return skip!;
         }
 
-        KolmogorovSmirnovResult ks = KolmogorovSmirnov.TwoSample(input.Baseline.ResidualSample, input.Window.ResidualSample);
+        KolmogorovSmirnovResult ks = KolmogorovSmirnov.TwoSampleSorted(input.Baseline.SortedResidualSample, SortedSample.Of(input.Window.ResidualSample));
         return new Finding
         {
             Check = CheckNames.Residuals,
@@ -176,7 +176,7 @@ public static class ResidualsCheck
         }
 
         // Weights the tails more than KS. Its p-value is interpolated in a table that ends at 0.001, so it only warns.
-        AndersonDarlingResult ad = AndersonDarlingKSample.Compute([input.Baseline.ResidualSample, input.Window.ResidualSample], midrank: true);
+        AndersonDarlingResult ad = AndersonDarlingKSample.ComputeSorted([input.Baseline.SortedResidualSample, SortedSample.Of(input.Window.ResidualSample)], midrank: true);
         double p = AndersonDarlingKSample.PValue(ad.Standardized, 2);
         return new Finding
         {

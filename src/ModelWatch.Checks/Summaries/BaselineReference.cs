@@ -1,4 +1,6 @@
+using System.Text.Json.Serialization;
 using ModelWatch.Numerics.Regression;
+using ModelWatch.Numerics.Statistics;
 
 namespace ModelWatch.Checks.Summaries;
 
@@ -80,6 +82,21 @@ public sealed class BaselineReference
 
     /// <summary>Reservoir values per feature (design order), for two-sample tests.</summary>
     public IReadOnlyList<double[]> FeatureSamples { get; init; } = [];
+
+    /// <summary>
+    /// <see cref="ResidualSample"/> sorted ascending. A baseline never changes and the daemon keeps it in memory across
+    /// runs, so the rank tests sort its thousands of reference values once, not on every run.
+    /// </summary>
+    [JsonIgnore]
+    public double[] SortedResidualSample => _sortedResidualSample ??= SortedSample.Of(ResidualSample);
+
+    /// <summary><see cref="FeatureSamples"/>, each sorted ascending (see <see cref="SortedResidualSample"/>).</summary>
+    [JsonIgnore]
+    public IReadOnlyList<double[]> SortedFeatureSamples => _sortedFeatureSamples ??= [.. FeatureSamples.Select(SortedSample.Of)];
+
+    // Filled on first use; two threads racing compute equal arrays, so either may win.
+    private double[]? _sortedResidualSample;
+    private double[][]? _sortedFeatureSamples;
 
     /// <summary>
     /// Leverage <c>xᵀ(X_refᵀX_ref)⁻¹x</c> above which a window row counts as an extrapolation: the reference quantile of
