@@ -10,11 +10,11 @@ public enum AlertAction
     [JsonStringEnumMemberName("none")]
     None,
 
-    /// <summary>Open a new critical alert.</summary>
+    /// <summary>Open a new alert (critical, or warning when warning alerts are on; see <see cref="AlertDecision.AlertSeverity"/>).</summary>
     [JsonStringEnumMemberName("open")]
     Open,
 
-    /// <summary>An alert is already open and this run adds fresh critical evidence (append it; re-notify if the daemon's rules say so).</summary>
+    /// <summary>An alert is already open and this run adds fresh critical evidence: a critical decision escalates a warning alert.</summary>
     [JsonStringEnumMemberName("raise")]
     Raise,
 

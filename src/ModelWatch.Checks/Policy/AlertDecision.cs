@@ -17,6 +17,16 @@ public sealed record AlertDecision
     /// <summary>The worst finding of this run for the key (null when every finding was skipped).</summary>
     public Finding? Evidence { get; init; }
 
+    /// <summary>
+    /// Severity of the alert this decision opens or raises: critical when the critical rule is met, warning for a
+    /// warning alert (<see cref="CheckThresholds.WarningAlerts"/>) or for critical evidence that has not persisted yet.
+    /// Null (decisions made elsewhere) means the evidence's severity.
+    /// </summary>
+    public Severity? AlertSeverity { get; init; }
+
+    /// <summary>The severity an alert gets from this decision.</summary>
+    public Severity EffectiveSeverity => AlertSeverity ?? (Evidence is { Severity: Severity.Critical } ? Severity.Critical : Severity.Warning);
+
     /// <summary>Why, in a line.</summary>
     public required string Reason { get; init; }
 

@@ -8,8 +8,10 @@ namespace ModelWatch.Checks.Policy;
 /// (critical in <see cref="CheckThresholds.PersistenceRequired"/> of the last <see cref="CheckThresholds.PersistenceWindows"/>
 /// evaluated windows; methods.md §3.5.4); sequential and hard findings (CUSUM crossing, lost rank, dead feed, served
 /// mismatch) open at once. An open alert resolves after <see cref="CheckThresholds.ResolveAfterOkWindows"/> evaluated
-/// runs in a row with nothing above ok (hysteresis); a warning keeps it open. Only critical evidence opens alerts:
-/// warnings are findings, not pages (methods.md §3.5.9). Skipped findings leave the state untouched.
+/// runs in a row with nothing above ok (hysteresis); a warning keeps it open. By default only critical evidence opens
+/// alerts: warnings are findings, not pages (methods.md §3.5.9). With <see cref="CheckThresholds.WarningAlerts"/>,
+/// persisting warnings (the same count of windows, at warning or above) open a warning alert, which critical evidence
+/// (at once or persisted, as above) escalates. Skipped findings leave the state untouched.
 /// </summary>
 public static class AlertPolicy
 {
@@ -58,20 +60,36 @@ public static class AlertPolicy
         }
 
         int criticalCount = persistent.Count > 0 ? recent.Count(x => x == Severity.Critical) : 0;
+        int elevatedCount = persistent.Count > 0 ? recent.Count(x => x >= Severity.Warning) : 0;
         bool persisted = criticalCount >= t.PersistenceRequired;
         bool critical = immediate == Severity.Critical || persisted;
+        bool warned = t.WarningAlerts && elevatedCount >= t.PersistenceRequired;
         string evidence = string.Create(CultureInfo.InvariantCulture, $"{criticalCount} of the last {recent.Count} windows critical");
         AlertPolicyState next = state with { Recent = recent };
         if (!state.Open)
         {
-            return critical
-                ? new AlertDecision { Check = state.Check, Subject = state.Subject, Action = AlertAction.Open, Evidence = worst, Reason = immediate == Severity.Critical ? "critical evidence that needs no repetition" : evidence, State = next with { Open = true, ConsecutiveOk = 0 } }
-                : new AlertDecision { Check = state.Check, Subject = state.Subject, Action = AlertAction.None, Evidence = worst, Reason = worst.Severity == Severity.Critical ? evidence + "; waiting for persistence" : "nothing critical", State = next };
+            if (critical)
+            {
+                return new AlertDecision { Check = state.Check, Subject = state.Subject, Action = AlertAction.Open, AlertSeverity = Severity.Critical, Evidence = worst, Reason = immediate == Severity.Critical ? "critical evidence that needs no repetition" : evidence, State = next with { Open = true, ConsecutiveOk = 0 } };
+            }
+
+            if (warned)
+            {
+                // The evidence shown is the worst persistent finding: a warning alert is about the per-window tests.
+                Finding shown = persistent.OrderByDescending(x => x.Severity).First();
+                string reason = string.Create(CultureInfo.InvariantCulture, $"{elevatedCount} of the last {recent.Count} windows at warning or above");
+                return new AlertDecision { Check = state.Check, Subject = state.Subject, Action = AlertAction.Open, AlertSeverity = Severity.Warning, Evidence = shown, Reason = reason, State = next with { Open = true, ConsecutiveOk = 0 } };
+            }
+
+            return new AlertDecision { Check = state.Check, Subject = state.Subject, Action = AlertAction.None, Evidence = worst, Reason = worst.Severity == Severity.Critical ? evidence + "; waiting for persistence" : "nothing critical", State = next };
         }
 
         if (worst.Severity == Severity.Critical)
         {
-            return new AlertDecision { Check = state.Check, Subject = state.Subject, Action = AlertAction.Raise, Evidence = worst, Reason = "still critical", State = next with { ConsecutiveOk = 0 } };
+            // Critical evidence that meets the opening rule escalates a warning alert; with warning alerts on, a lone
+            // critical window only refreshes it (without them every open alert is critical, and stays so).
+            Severity raised = critical || !t.WarningAlerts ? Severity.Critical : Severity.Warning;
+            return new AlertDecision { Check = state.Check, Subject = state.Subject, Action = AlertAction.Raise, AlertSeverity = raised, Evidence = worst, Reason = raised == Severity.Critical ? "still critical" : evidence + "; not enough to escalate a warning alert", State = next with { ConsecutiveOk = 0 } };
         }
 
         int ok = worst.Severity == Severity.Ok ? state.ConsecutiveOk + 1 : 0;

@@ -95,6 +95,16 @@ public sealed record CheckThresholds
     [Range(1, 20)]
     public int PersistenceRequired { get; init; } = 2;
 
+    /// <summary>
+    /// Also open <c>warning</c> alerts, when warnings persist: <see cref="PersistenceRequired"/> of the last
+    /// <see cref="PersistenceWindows"/> evaluated windows at warning or above. Such an alert escalates to critical on
+    /// critical evidence. Default false: a warning is a single test at <see cref="WarningAlpha"/> with no practical
+    /// floor (methods.md §3.5.9), so with a dozen tests per window, warning alerts open by chance every few weeks of
+    /// daily windows; turn it on for models whose warnings should reach a channel (a notification target with
+    /// minimum severity <c>warning</c>), never a pager.
+    /// </summary>
+    public bool WarningAlerts { get; init; }
+
     /// <summary>Consecutive ok windows that resolve an open alert (hysteresis; common practice). Default 3.</summary>
     [Range(1, 100)]
     public int ResolveAfterOkWindows { get; init; } = 3;

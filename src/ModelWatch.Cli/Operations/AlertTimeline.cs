@@ -22,7 +22,7 @@ internal sealed class AlertTimeline
         foreach (AlertDecision decision in decisions)
         {
             var key = (decision.Check, decision.Subject ?? string.Empty);
-            Severity severity = decision.Evidence is { Severity: Severity.Critical } ? Severity.Critical : Severity.Warning;
+            Severity severity = decision.EffectiveSeverity;
             bool open = _unresolved.TryGetValue(key, out int index);
             switch (decision.Action)
             {

@@ -31,8 +31,7 @@ internal static class AlertTransitions
         }
 
         var current = await connection.QuerySingleOrDefaultAsync<AlertRow>(Command(FindUnresolvedSql, new { model, check = decision.Check, subject = decision.Subject }));
-        Finding? evidence = decision.Evidence;
-        string severity = evidence is { Severity: Severity.Critical } ? "critical" : "warning";
+        string severity = decision.EffectiveSeverity == Severity.Critical ? "critical" : "warning";
         switch (decision.Action)
         {
             case AlertAction.Open or AlertAction.Raise when current is null:

@@ -14,18 +14,21 @@ public sealed class AlertPolicyTests
         Findings = [new Finding { Check = check, Subject = subject, Statistic = "s", Severity = severity, RequiresPersistence = persistent, Skipped = skipped, Explanation = "x" }],
     };
 
-    private static List<AlertAction> Replay(IEnumerable<CheckResult> runs, string fingerprint = "b1")
+    private static List<AlertAction> Replay(IEnumerable<CheckResult> runs, string fingerprint = "b1") =>
+        [.. Decide(runs, Thresholds, fingerprint).Select(d => d.Action)];
+
+    private static List<AlertDecision> Decide(IEnumerable<CheckResult> runs, CheckThresholds thresholds, string fingerprint = "b1")
     {
         var states = new List<AlertPolicyState>();
-        var actions = new List<AlertAction>();
+        var made = new List<AlertDecision>();
         foreach (CheckResult run in runs)
         {
-            IReadOnlyList<AlertDecision> decisions = AlertPolicy.Evaluate([run], states, fingerprint, Thresholds);
-            actions.Add(decisions.Single(d => d.Check == run.Check).Action);
+            IReadOnlyList<AlertDecision> decisions = AlertPolicy.Evaluate([run], states, fingerprint, thresholds);
+            made.Add(decisions.Single(d => d.Check == run.Check));
             states = decisions.Select(d => d.State).ToList();
         }
 
-        return actions;
+        return made;
     }
 
     [Fact]
@@ -53,6 +56,45 @@ public sealed class AlertPolicyTests
             Run("features", Severity.Ok, subject: "x1"), Run("features", Severity.Ok, subject: "x1"),
         ]);
         Assert.Equal([AlertAction.None, AlertAction.Open, AlertAction.Raise, AlertAction.None, AlertAction.None, AlertAction.None, AlertAction.None, AlertAction.Resolve], actions);
+    }
+
+    [Fact]
+    public void Warnings_open_nothing_unless_warning_alerts_are_on()
+    {
+        CheckResult[] runs = [Run("residuals", Severity.Warning), Run("residuals", Severity.Ok), Run("residuals", Severity.Warning)];
+        Assert.All(Replay(runs), a => Assert.Equal(AlertAction.None, a));
+
+        List<AlertDecision> decisions = Decide(runs, new CheckThresholds { WarningAlerts = true });
+        Assert.Equal([AlertAction.None, AlertAction.None, AlertAction.Open], decisions.Select(d => d.Action));
+        Assert.Equal(Severity.Warning, decisions[2].EffectiveSeverity);
+    }
+
+    [Fact]
+    public void A_warning_alert_escalates_only_under_the_critical_rule()
+    {
+        var thresholds = new CheckThresholds { WarningAlerts = true };
+        List<AlertDecision> decisions = Decide(
+        [
+            Run("error", Severity.Warning), Run("error", Severity.Warning), Run("error", Severity.Critical),
+            Run("error", Severity.Critical), Run("error", Severity.Ok), Run("error", Severity.Ok), Run("error", Severity.Ok),
+        ], thresholds);
+
+        // Window 2 opens a warning alert; window 3's lone critical refreshes it without escalating; window 4 makes two
+        // critical of the last three, which escalates; three ok windows then resolve it.
+        Assert.Equal([AlertAction.None, AlertAction.Open, AlertAction.Raise, AlertAction.Raise, AlertAction.None, AlertAction.None, AlertAction.Resolve], decisions.Select(d => d.Action));
+        Assert.Equal([Severity.Warning, Severity.Warning, Severity.Critical], decisions.Skip(1).Take(3).Select(d => d.EffectiveSeverity));
+
+        // Sequential (immediate) critical evidence escalates at once; immediate warnings alone never open an alert.
+        Assert.Equal(Severity.Critical, Decide([Run("residuals", Severity.Critical, persistent: false)], thresholds).Single().EffectiveSeverity);
+        Assert.All(Decide([Run("residuals", Severity.Warning, persistent: false), Run("residuals", Severity.Warning, persistent: false)], thresholds), d => Assert.Equal(AlertAction.None, d.Action));
+    }
+
+    [Fact]
+    public void Without_warning_alerts_every_alert_is_critical()
+    {
+        List<AlertDecision> decisions = Decide([Run("error", Severity.Critical), Run("error", Severity.Critical), Run("error", Severity.Critical)], Thresholds);
+        Assert.Equal([AlertAction.None, AlertAction.Open, AlertAction.Raise], decisions.Select(d => d.Action));
+        Assert.All(decisions.Skip(1), d => Assert.Equal(Severity.Critical, d.EffectiveSeverity));
     }
 
     [Fact]
