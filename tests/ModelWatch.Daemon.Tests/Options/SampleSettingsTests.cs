@@ -2,7 +2,9 @@ using Microsoft.Extensions.Configuration;
 using Microsoft.Extensions.DependencyInjection;
 using Microsoft.Extensions.Options;
 using ModelWatch.Daemon.Hosting;
+using ModelWatch.Daemon.Execution;
 using ModelWatch.Daemon.Options;
+using ModelWatch.Store.Specs;
 
 namespace ModelWatch.Daemon.Tests.Options;
 
@@ -23,6 +25,22 @@ public sealed class SampleSettingsTests
         Assert.Equal("critical", notifications.Targets["courier-oncall"].MinimumSeverity);
         Assert.Equal(TimeSpan.FromDays(180), services.GetRequiredService<IOptions<RetentionOptions>>().Value.RunMaxAge);
         Assert.False(services.GetRequiredService<IOptions<HealthOptions>>().Value.Enabled);
+    }
+
+    [Fact]
+    public void Every_sample_spec_names_sources_and_targets_the_sample_settings_define()
+    {
+        string root = RepositoryRoot();
+        IConfiguration configuration = new ConfigurationBuilder().AddJsonFile(Path.Combine(root, "sample-config", "appsettings.json")).Build();
+        using ServiceProvider services = new ServiceCollection().AddLogging().AddModelWatchDaemon(configuration).BuildServiceProvider();
+        NotificationOptions notifications = services.GetRequiredService<IOptions<NotificationOptions>>().Value;
+
+        foreach ((ModelSpec spec, string file) in ModelSpecFiles.Load(Path.Combine(root, "sample-config", "models")))
+        {
+            Assert.All(spec.Notify, target => Assert.True(notifications.Targets.ContainsKey(target), $"{file}: notify names {target}, which appsettings.json does not define"));
+            Assert.True(spec.Source is null || configuration[$"Sources:{spec.Source}:ConnectionString"] is not null, $"{file}: source {spec.Source} is not in appsettings.json");
+            Assert.NotNull(SpecThresholds.For(spec, DateTimeOffset.UnixEpoch));
+        }
     }
 
     [Fact]
