@@ -22,6 +22,7 @@ internal sealed class Runs(NpgsqlDataSource source, long rows)
         await using var command = new NpgsqlCommand(ColumnCheck.ReadSql(_spec, []), connection, transaction) { CommandTimeout = 0 };
         command.Parameters.Add(new NpgsqlParameter("window_start", NpgsqlDbType.TimestampTz) { Value = BenchTable.Start.UtcDateTime });
         command.Parameters.Add(new NpgsqlParameter("window_end", NpgsqlDbType.TimestampTz) { Value = _end.UtcDateTime });
+        command.Parameters.Add(new NpgsqlParameter("new_from", NpgsqlDbType.TimestampTz) { Value = BenchTable.Start.UtcDateTime });
         var sums = new double[BenchTable.Features + 1];
         await using (NpgsqlDataReader reader = await command.ExecuteReaderAsync(CommandBehavior.SequentialAccess))
         {
