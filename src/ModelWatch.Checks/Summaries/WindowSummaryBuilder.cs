@@ -13,11 +13,12 @@ public sealed class WindowSummaryBuilder
     private readonly BaselineReference _baseline;
     private readonly WindowSummaryOptions _options;
     private readonly LeastSquaresAccumulator _accumulator;
-    private readonly LeastSquaresAccumulator _newRows;
+    private LeastSquaresAccumulator? _newRows;
     private readonly RowReservoir _reservoir;
     private readonly LagSums _lags;
     private readonly double[] _b0;
     private readonly double[,]? _rRef;
+    private readonly double[]? _rPacked;
     private readonly long[][] _binCounts;
     private readonly double[] _x;
     private readonly double[] _work;
@@ -51,7 +52,6 @@ public sealed class WindowSummaryBuilder
         _baseline = baseline;
         _options = options;
         _accumulator = new LeastSquaresAccumulator(layout, NonFiniteValuePolicy.RejectRow);
-        _newRows = new LeastSquaresAccumulator(layout, NonFiniteValuePolicy.RejectRow);
         _reservoir = new RowReservoir(options.ReservoirSize, options.Seed);
         _lags = new LagSums(options.MaximumLag);
         _b0 = baseline.CoefficientVector();
@@ -67,6 +67,8 @@ public sealed class WindowSummaryBuilder
                     _rRef[i, j] = reference[i, j];
                 }
             }
+
+            _rPacked = DesignRow.PackUpperColumns(_rRef);
         }
 
         _binCounts = baseline.FeatureBins.Select(b => new long[b.Proportions.Length]).ToArray();
@@ -89,12 +91,19 @@ public sealed class WindowSummaryBuilder
     /// </summary>
     public bool AddRow(ReadOnlySpan<double> features, double outcome, double? servedPrediction, bool newSinceLastRun)
     {
+        // While every row is new, the new rows are exactly the accumulator's and a second accumulator would only repeat
+        // its work; the first row an earlier run saw starts a separate one holding the (new) rows before it.
+        if (!newSinceLastRun && _newRows is null)
+        {
+            _newRows = SeparateNewRows(_accumulator);
+        }
+
         if (!_accumulator.AddRow(features, outcome))
         {
             return false;
         }
 
-        if (newSinceLastRun)
+        if (newSinceLastRun && _newRows is not null)
         {
             _newRows.AddRow(features, outcome);
         }
@@ -106,9 +115,9 @@ public sealed class WindowSummaryBuilder
         _sumSquares += e * e;
         _sumAbs += Math.Abs(e);
         _outcomeDeviation += (outcome - _outcomeMean) * (outcome - _outcomeMean);
-        if (_rRef is not null)
+        if (_rPacked is not null)
         {
-            double h = DesignRow.Leverage(_rRef, _x, _work);
+            double h = DesignRow.Leverage(_rPacked, _x, _work);
             _leverageExceed += h > _baseline.LeverageThreshold!.Value ? 1 : 0;
             _leverageAboveMax += h > _baseline.MaximumLeverage!.Value ? 1 : 0;
             _maxLeverage = double.IsNaN(_maxLeverage) ? h : Math.Max(_maxLeverage, h);
@@ -148,8 +157,13 @@ public sealed class WindowSummaryBuilder
             throw new ArgumentException("Only a distinct builder with the same maximum lag can be merged.", nameof(other));
         }
 
+        if (_newRows is not null || other._newRows is not null)
+        {
+            _newRows ??= SeparateNewRows(_accumulator);
+            _newRows.Merge(other.NewRowsAccumulator);
+        }
+
         _accumulator.Merge(other._accumulator);
-        _newRows.Merge(other._newRows);
         _lags.MergeFollowing(other._lags);
         _reservoir.MergeFollowing(other._reservoir);
         _sumSquares += other._sumSquares;
@@ -172,6 +186,18 @@ public sealed class WindowSummaryBuilder
         _servedMax = Math.Max(_servedMax, other._servedMax);
     }
 
+    /// <summary>A new-rows accumulator holding a copy of <paramref name="allNew"/>, every row of which is new.</summary>
+    private LeastSquaresAccumulator SeparateNewRows(LeastSquaresAccumulator allNew)
+    {
+        var separate = new LeastSquaresAccumulator(_layout, NonFiniteValuePolicy.RejectRow);
+        if (allNew.RowCount > 0)
+        {
+            separate.Merge(allNew);
+        }
+
+        return separate;
+    }
+
     /// <summary>Completes the summary.</summary>
     public WindowSummary Build() => WindowSummaryAssembler.Assemble(this);
 
@@ -183,7 +209,7 @@ public sealed class WindowSummaryBuilder
 
     internal LeastSquaresAccumulator Accumulator => _accumulator;
 
-    internal LeastSquaresAccumulator NewRowsAccumulator => _newRows;
+    internal LeastSquaresAccumulator NewRowsAccumulator => _newRows ?? _accumulator;
 
     internal RowReservoir Reservoir => _reservoir;
 

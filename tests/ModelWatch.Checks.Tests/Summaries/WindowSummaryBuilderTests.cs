@@ -96,6 +96,50 @@ public sealed class WindowSummaryBuilderTests
         Assert.Equal(30, window.NewRows!.RowCount);
     }
 
+    [Theory]
+    [InlineData(0, 60, 100)]
+    [InlineData(30, 100, 100)]
+    [InlineData(45, 0, 100)]
+    [InlineData(80, 50, 50)]
+    public void The_new_rows_factor_holds_exactly_the_new_rows_however_the_window_is_split(int split, int firstNew, int lastNew)
+    {
+        // Rows firstNew ≤ i < lastNew are new; the window is read as [0, split) and [split, 100), merged in order.
+        var model = new SyntheticModel(seed: 14, features: 2);
+        BaselineReference baseline = model.Baseline(500);
+        var rows = Enumerable.Range(0, 100).Select(_ => model.Row()).ToList();
+        var expected = new LeastSquaresAccumulator(model.Layout);
+        var first = new WindowSummaryBuilder(model.Layout, baseline, new WindowSummaryOptions());
+        var second = new WindowSummaryBuilder(model.Layout, baseline, new WindowSummaryOptions());
+        for (int i = 0; i < rows.Count; i++)
+        {
+            bool isNew = i >= firstNew && i < lastNew;
+            (i < split ? first : second).AddRow(rows[i].X, rows[i].Y, null, isNew);
+            if (isNew)
+            {
+                expected.AddRow(rows[i].X, rows[i].Y);
+            }
+        }
+
+        first.Merge(second);
+        WindowSummary window = first.Build();
+        Assert.Equal(100, window.RowsAccepted);
+        if (expected.RowCount == 0)
+        {
+            Assert.Null(window.NewRows);
+            return;
+        }
+
+        AugmentedFactor reference = expected.ToFactor();
+        Assert.Equal(reference.RowCount, window.NewRows!.RowCount);
+        Assert.Equal(reference.ResidualSumOfSquares, window.NewRows.ResidualSumOfSquares, 1e-9 * reference.ResidualSumOfSquares);
+        FitSummary a = LeastSquaresFit.Fit(reference);
+        FitSummary b = LeastSquaresFit.Fit(window.NewRows);
+        for (int j = 0; j < a.ParameterCount; j++)
+        {
+            Assert.Equal(a.Coefficients[j].Estimate!.Value, b.Coefficients[j].Estimate!.Value, 10);
+        }
+    }
+
     [Fact]
     public void Non_finite_rows_are_counted_by_column_and_a_mismatched_design_is_refused()
     {
