@@ -27,6 +27,9 @@ public sealed record AlertEvent(
     string Explanation,
     DateTimeOffset At)
 {
+    /// <summary>The stored event's id (<c>modelwatch.alert_event</c>), or null when not known; receivers may deduplicate on it.</summary>
+    public long? EventId { get; init; }
+
     /// <summary>The stable OpenTelemetry event name of this transition, e.g. <c>modelwatch.alert.opened</c>.</summary>
     public string EventName => "modelwatch.alert." + Transition;
 }

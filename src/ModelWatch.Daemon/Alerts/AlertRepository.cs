@@ -1,4 +1,5 @@
 using Dapper;
+using ModelWatch.Daemon.Notifications;
 using Npgsql;
 
 namespace ModelWatch.Daemon.Alerts;
@@ -103,11 +104,11 @@ public sealed class AlertRepository(NpgsqlDataSource dataSource, TimeSpan comman
         await connection.ExecuteAsync(Command(
             $"UPDATE modelwatch.alert SET state = @target, {column}_at = @now, {column}_by = @actor, note = COALESCE(@note, note) WHERE id = @id",
             new { target, now, actor, note, id }));
-        await connection.ExecuteAsync(Command(
-            """
-            INSERT INTO modelwatch.alert_event (alert_id, transition, severity, state, actor, at, explanation)
-            VALUES (@id, @target, @severity, @target, @actor, @now, @explanation)
-            """,
+        await connection.ExecuteScalarAsync<long>(Command(
+            NotificationQueue.WithQueuedNotifications("""
+                INSERT INTO modelwatch.alert_event (alert_id, transition, severity, state, actor, at, explanation)
+                VALUES (@id, @target, @severity, @target, @actor, @now, @explanation)
+                """),
             new { id, target, severity = alert.Severity, actor, now, explanation = note ?? $"{target} by {actor}" }));
         if (target == "resolved")
         {

@@ -12,8 +12,9 @@ using Npgsql;
 namespace ModelWatch.Daemon.Execution;
 
 /// <summary>
-/// Records a run under the lease, then tells the world: metrics, per-model gauges, one alert event per committed
-/// transition, and the notification queue. Telemetry is emitted only after the commit, so an alert event is never
+/// Records a run under the lease (its alert transitions and their queued notifications included), then tells the
+/// world: metrics, per-model gauges, one alert event per committed transition, and a nudge to the notification
+/// dispatcher. Telemetry is emitted only after the commit, so an alert event is never
 /// sent for a transition that was rolled back.
 /// </summary>
 public sealed partial class RunCompletion(
@@ -21,7 +22,7 @@ public sealed partial class RunCompletion(
     NpgsqlDataSource state,
     ModelWatchMetrics metrics,
     AlertEventLogger events,
-    NotificationOutbox notifications,
+    NotificationWakeup notifications,
     IOptions<DaemonOptions> options,
     TimeProvider time,
     ILogger<RunCompletion> logger)
@@ -58,7 +59,12 @@ public sealed partial class RunCompletion(
         {
             metrics.RecordAlertTransition(transition.Model, transition.Check, transition.Severity, transition.State);
             events.Publish(transition);
-            notifications.Enqueue(transition, model.Spec.Notify);
+        }
+
+        if (recorded.Transitions.Count > 0)
+        {
+            // The transitions' notifications were queued in the same transaction; deliver them now rather than at the next poll.
+            notifications.Wake();
         }
 
         if (outcome.Gauges is { } gauges)

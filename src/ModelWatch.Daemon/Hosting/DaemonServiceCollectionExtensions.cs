@@ -60,7 +60,7 @@ public static class DaemonServiceCollectionExtensions
         services.TryAddSingleton<RunPipeline>();
         services.TryAddSingleton<RunCompletion>();
         services.TryAddSingleton<DaemonHealth>();
-        services.TryAddSingleton<NotificationOutbox>();
+        services.TryAddSingleton<NotificationWakeup>();
         services.AddHttpClient<WebhookSender>();
         services.AddMetrics();
         services.TryAddSingleton<ModelWatchMetrics>();

@@ -9,94 +9,203 @@ using Npgsql;
 namespace ModelWatch.Daemon.Notifications;
 
 /// <summary>
-/// Delivers queued alert transitions to their webhook targets: skips targets whose minimum severity is not met and
-/// models (or checks) under an active silence, signs and retries through <see cref="WebhookSender"/>, and records
-/// every attempt in <c>modelwatch.notification_attempt</c>.
+/// Delivers the queued notifications (<c>modelwatch.notification</c>, filled by <see cref="NotificationQueue"/> in the
+/// transaction of each alert transition). Claims pending rows with a lease (<c>FOR UPDATE SKIP LOCKED</c>), so replicas
+/// share the work and a row whose replica died is sent by another after the lease; skips targets that are not
+/// configured or whose minimum severity is not met, and models (or checks) under an active silence; signs and retries
+/// through <see cref="WebhookSender"/>; records every attempt in <c>modelwatch.notification_attempt</c> and the
+/// row's outcome (<c>delivered</c>, <c>failed</c>, <c>skipped</c>) on the row. Delivery is at least once: a replica
+/// that dies between a target's 2xx and recording it leaves the row to be sent again, with the same <c>event_id</c>.
 /// </summary>
 public sealed partial class NotificationDispatcher(
-    NotificationOutbox queue,
+    NotificationWakeup wakeup,
     WebhookSender sender,
     NpgsqlDataSource state,
     IOptionsMonitor<NotificationOptions> options,
+    IOptions<DaemonOptions> daemon,
     TimeProvider time,
     ILogger<NotificationDispatcher> logger) : BackgroundService
 {
+    private const int BatchSize = 20;
+
+    private const string ClaimSql = """
+        UPDATE modelwatch.notification AS n
+           SET lease_owner = @worker, lease_expires_at = @expires
+          FROM (SELECT id
+                  FROM modelwatch.notification
+                 WHERE state = 'pending' AND (lease_expires_at IS NULL OR lease_expires_at <= @now)
+                 ORDER BY id
+                 LIMIT @limit
+                   FOR UPDATE SKIP LOCKED) AS due
+         WHERE n.id = due.id
+        RETURNING n.id AS Id, n.alert_event_id AS EventId, n.target AS Target
+        """;
+
+    private const string EventsSql = """
+        SELECT e.id AS EventId, e.alert_id AS AlertId, e.transition AS Transition, a.model_key AS Model, a.check_name AS CheckName,
+               a.subject AS Subject, e.severity AS Severity, e.state AS State, e.statistic AS Statistic, e.value AS Value,
+               e.threshold AS Threshold, e.explanation AS Explanation, e.at AS At
+          FROM modelwatch.alert_event e
+          JOIN modelwatch.alert a ON a.id = e.alert_id
+         WHERE e.id = ANY(@ids)
+        """;
+
     /// <inheritdoc />
     protected override async Task ExecuteAsync(CancellationToken stoppingToken)
     {
-        try
+        while (!stoppingToken.IsCancellationRequested)
         {
-            await foreach ((AlertEvent alert, IReadOnlyList<string> targets) in queue.Reader.ReadAllAsync(stoppingToken))
+            try
             {
-                try
+                while (await DeliverBatchAsync(stoppingToken) == BatchSize)
                 {
-                    await DispatchAsync(alert, targets, stoppingToken);
-                }
-                catch (Exception ex) when (ex is NpgsqlException or HttpRequestException or TimeoutException)
-                {
-                    LogDispatchFailed(logger, ex, alert.AlertId);
+                    // A full batch: more may be waiting.
                 }
             }
-        }
-        catch (OperationCanceledException) when (stoppingToken.IsCancellationRequested)
-        {
-            // Shutting down: undelivered notifications are logged as alert events already.
+            catch (OperationCanceledException) when (stoppingToken.IsCancellationRequested)
+            {
+                break;
+            }
+            catch (Exception ex) when (ex is not OperationCanceledException and not OutOfMemoryException)
+            {
+                // The rows stay pending; their leases expire and the next poll (here or on another replica) tries again.
+                LogDispatchFailed(logger, ex);
+            }
+
+            try
+            {
+                await wakeup.WaitAsync(options.CurrentValue.PollInterval, time, stoppingToken);
+            }
+            catch (OperationCanceledException)
+            {
+                break;
+            }
         }
     }
 
-    private async Task DispatchAsync(AlertEvent alert, IReadOnlyList<string> targets, CancellationToken cancellationToken)
+    /// <summary>Claims and delivers one batch of pending notifications; returns how many were claimed.</summary>
+    private async Task<int> DeliverBatchAsync(CancellationToken cancellationToken)
     {
+        string worker = daemon.Value.WorkerId;
+        DateTimeOffset now = time.GetUtcNow();
+        List<ClaimedNotification> claimed;
+        Dictionary<long, AlertEvent> events;
+        await using (NpgsqlConnection connection = await state.OpenConnectionAsync(cancellationToken))
+        {
+            claimed = [.. await connection.QueryAsync<ClaimedNotification>(Command(
+                ClaimSql, new { worker, now, expires = now + options.CurrentValue.LeaseDuration, limit = BatchSize }, cancellationToken))];
+            if (claimed.Count == 0)
+            {
+                return 0;
+            }
+
+            var rows = await connection.QueryAsync<EventRow>(Command(EventsSql, new { ids = claimed.Select(c => c.EventId).Distinct().ToArray() }, cancellationToken));
+            events = rows.ToDictionary(r => r.EventId, r => r.ToEvent());
+        }
+
+        foreach (ClaimedNotification notification in claimed)
+        {
+            try
+            {
+                (string outcome, string? detail) = await DeliverAsync(notification, events[notification.EventId], cancellationToken);
+                await FinishAsync(notification.Id, worker, outcome, detail, cancellationToken);
+            }
+            catch (OperationCanceledException) when (cancellationToken.IsCancellationRequested)
+            {
+                // Shutting down mid-delivery: hand the row back at once rather than after the lease.
+                await ReleaseAsync(claimed.Select(c => c.Id).ToArray(), worker);
+                throw;
+            }
+        }
+
+        return claimed.Count;
+    }
+
+    private async Task<(string Outcome, string? Detail)> DeliverAsync(ClaimedNotification notification, AlertEvent alert, CancellationToken cancellationToken)
+    {
+        if (!options.CurrentValue.Targets.TryGetValue(notification.Target, out NotificationTargetOptions? target))
+        {
+            LogUnknownTarget(logger, notification.Target, alert.Model);
+            return ("skipped", "target not configured under Notifications:Targets");
+        }
+
+        if (alert.Severity == "warning" && target.MinimumSeverity == "critical")
+        {
+            return ("skipped", "below the target's minimum severity");
+        }
+
         if (await IsSilencedAsync(alert, cancellationToken))
         {
             LogSilenced(logger, alert.AlertId, alert.Model, alert.Check);
-            return;
+            return ("skipped", "silenced");
         }
 
         byte[] body = NotificationPayload.Create(alert, time.GetUtcNow());
-        foreach (string name in targets)
+        IReadOnlyList<DeliveryAttempt> attempts = await sender.DeliverAsync(notification.Target, target, alert.AlertId, body, cancellationToken);
+        await RecordAttemptsAsync(attempts, notification.EventId, cancellationToken);
+        if (attempts[^1].Succeeded)
         {
-            if (!options.CurrentValue.Targets.TryGetValue(name, out NotificationTargetOptions? target))
-            {
-                LogUnknownTarget(logger, name, alert.Model);
-                continue;
-            }
-
-            if (alert.Severity == "warning" && target.MinimumSeverity == "critical")
-            {
-                continue;
-            }
-
-            IReadOnlyList<DeliveryAttempt> attempts = await sender.DeliverAsync(name, target, alert.AlertId, body, cancellationToken);
-            await RecordAsync(attempts, cancellationToken);
-            if (!attempts[^1].Succeeded)
-            {
-                LogGaveUp(logger, name, alert.AlertId, attempts.Count, attempts[^1].Error ?? "unknown error");
-            }
+            return ("delivered", null);
         }
+
+        LogGaveUp(logger, notification.Target, alert.AlertId, attempts.Count, attempts[^1].Error ?? "unknown error");
+        return ("failed", attempts[^1].Error);
     }
 
     private async Task<bool> IsSilencedAsync(AlertEvent alert, CancellationToken cancellationToken)
     {
         await using NpgsqlConnection connection = await state.OpenConnectionAsync(cancellationToken);
-        return await connection.ExecuteScalarAsync<bool>(new CommandDefinition(
+        return await connection.ExecuteScalarAsync<bool>(Command(
             "SELECT EXISTS (SELECT 1 FROM modelwatch.silence WHERE model_key = @model AND (check_name IS NULL OR check_name = @check) AND until > @now)",
             new { model = alert.Model, check = alert.Check, now = time.GetUtcNow() },
-            commandTimeout: 30,
-            cancellationToken: cancellationToken));
+            cancellationToken));
     }
 
-    private async Task RecordAsync(IReadOnlyList<DeliveryAttempt> attempts, CancellationToken cancellationToken)
+    private async Task RecordAttemptsAsync(IReadOnlyList<DeliveryAttempt> attempts, long eventId, CancellationToken cancellationToken)
     {
         await using NpgsqlConnection connection = await state.OpenConnectionAsync(cancellationToken);
-        await connection.ExecuteAsync(new CommandDefinition(
-            "INSERT INTO modelwatch.notification_attempt (alert_id, target, attempt, at, status_code, error) VALUES (@AlertId, @Target, @Attempt, @At, @StatusCode, @Error)",
-            attempts,
-            commandTimeout: 30,
-            cancellationToken: cancellationToken));
+        await connection.ExecuteAsync(Command(
+            "INSERT INTO modelwatch.notification_attempt (alert_id, alert_event, target, attempt, at, status_code, error) VALUES (@AlertId, @EventId, @Target, @Attempt, @At, @StatusCode, @Error)",
+            attempts.Select(a => new { a.AlertId, EventId = eventId, a.Target, a.Attempt, a.At, a.StatusCode, a.Error }),
+            cancellationToken));
     }
 
-    [LoggerMessage(EventId = 1201, Level = LogLevel.Warning, Message = "Notification for alert {AlertId} could not be dispatched")]
-    private static partial void LogDispatchFailed(ILogger logger, Exception exception, long alertId);
+    private async Task FinishAsync(long id, string worker, string outcome, string? detail, CancellationToken cancellationToken)
+    {
+        // Only while this replica still holds the row: one whose lease ran out may already be another replica's.
+        await using NpgsqlConnection connection = await state.OpenConnectionAsync(cancellationToken);
+        await connection.ExecuteAsync(Command(
+            """
+            UPDATE modelwatch.notification
+               SET state = @outcome, detail = @detail, finished_at = @now, lease_owner = NULL, lease_expires_at = NULL
+             WHERE id = @id AND lease_owner = @worker
+            """,
+            new { id, worker, outcome, detail, now = time.GetUtcNow() },
+            cancellationToken));
+    }
+
+    private async Task ReleaseAsync(long[] ids, string worker)
+    {
+        try
+        {
+            using var release = new CancellationTokenSource(TimeSpan.FromSeconds(5));
+            await using NpgsqlConnection connection = await state.OpenConnectionAsync(release.Token);
+            await connection.ExecuteAsync(Command(
+                "UPDATE modelwatch.notification SET lease_owner = NULL, lease_expires_at = NULL WHERE id = ANY(@ids) AND lease_owner = @worker AND state = 'pending'",
+                new { ids, worker },
+                release.Token));
+        }
+        catch (Exception ex) when (ex is NpgsqlException or TimeoutException or OperationCanceledException)
+        {
+            LogReleaseFailed(logger, ex.Message);
+        }
+    }
+
+    private static CommandDefinition Command(string sql, object? args, CancellationToken cancellationToken) =>
+        new(sql, args, commandTimeout: 30, cancellationToken: cancellationToken);
+
+    [LoggerMessage(EventId = 1201, Level = LogLevel.Warning, Message = "Queued notifications could not be dispatched; they stay queued")]
+    private static partial void LogDispatchFailed(ILogger logger, Exception exception);
 
     [LoggerMessage(EventId = 1202, Level = LogLevel.Information, Message = "Alert {AlertId} ({Model}/{Check}) is silenced; no notification sent")]
     private static partial void LogSilenced(ILogger logger, long alertId, string model, string check);
@@ -106,4 +215,47 @@ public sealed partial class NotificationDispatcher(
 
     [LoggerMessage(EventId = 1204, Level = LogLevel.Error, Message = "Target {Target} did not accept alert {AlertId} after {Attempts} attempt(s): {Error}")]
     private static partial void LogGaveUp(ILogger logger, string target, long alertId, int attempts, string error);
+
+    [LoggerMessage(EventId = 1205, Level = LogLevel.Warning, Message = "Claimed notifications could not be handed back at shutdown ({Problem}); their leases expire by themselves")]
+    private static partial void LogReleaseFailed(ILogger logger, string problem);
+
+    /// <summary>A pending notification this replica claimed.</summary>
+    private sealed record ClaimedNotification(long Id, long EventId, string Target);
+
+    /// <summary>An alert event with its alert's model, check and subject, as stored.</summary>
+    private sealed class EventRow
+    {
+        public long EventId { get; set; }
+
+        public long AlertId { get; set; }
+
+        public string Transition { get; set; } = string.Empty;
+
+        public string Model { get; set; } = string.Empty;
+
+        public string CheckName { get; set; } = string.Empty;
+
+        public string? Subject { get; set; }
+
+        public string Severity { get; set; } = string.Empty;
+
+        public string State { get; set; } = string.Empty;
+
+        public string? Statistic { get; set; }
+
+        public double? Value { get; set; }
+
+        public double? Threshold { get; set; }
+
+        public string Explanation { get; set; } = string.Empty;
+
+        public DateTime At { get; set; }
+
+        public AlertEvent ToEvent() => new(
+            AlertId, Transition, Model, CheckName, Subject, Severity, State, Statistic ?? "none", Value, Threshold, Explanation,
+            new DateTimeOffset(DateTime.SpecifyKind(At, DateTimeKind.Utc)))
+        {
+            EventId = EventId,
+        };
+    }
 }

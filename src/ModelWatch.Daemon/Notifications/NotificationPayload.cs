@@ -26,6 +26,12 @@ public static class NotificationPayload
             writer.WriteStartObject();
             writer.WriteNumber("schema", Schema);
             writer.WriteString("event", alert.EventName);
+            if (alert.EventId is { } eventId)
+            {
+                // The same event may arrive twice (a replica that crashed after sending, before recording): receivers dedupe on it.
+                writer.WriteNumber("event_id", eventId);
+            }
+
             writer.WriteString("sent_at", sentAt.ToUniversalTime().ToString("yyyy-MM-dd'T'HH:mm:ss.fff'Z'", System.Globalization.CultureInfo.InvariantCulture));
             writer.WriteStartObject("alert");
             writer.WriteNumber("id", alert.AlertId);

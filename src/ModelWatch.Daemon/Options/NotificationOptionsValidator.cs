@@ -3,12 +3,18 @@ using Microsoft.Extensions.Options;
 
 namespace ModelWatch.Daemon.Options;
 
-/// <summary>Validates every webhook target (data annotations do not look inside dictionaries), listing every problem.</summary>
+/// <summary>Validates the queue settings and every webhook target (data annotations do not look inside dictionaries), listing every problem.</summary>
 internal sealed class NotificationOptionsValidator : IValidateOptions<NotificationOptions>
 {
     public ValidateOptionsResult Validate(string? name, NotificationOptions options)
     {
         var problems = new List<string>();
+        var own = new List<ValidationResult>();
+        if (!Validator.TryValidateObject(options, new ValidationContext(options), own, validateAllProperties: true))
+        {
+            problems.AddRange(own.Select(r => $"Notifications: {r.ErrorMessage}"));
+        }
+
         foreach ((string target, NotificationTargetOptions settings) in options.Targets)
         {
             var results = new List<ValidationResult>();

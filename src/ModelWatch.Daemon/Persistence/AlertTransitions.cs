@@ -2,6 +2,7 @@ using Dapper;
 using ModelWatch.Checks.Findings;
 using ModelWatch.Checks.Policy;
 using ModelWatch.Daemon.Alerts;
+using ModelWatch.Daemon.Notifications;
 using Npgsql;
 
 namespace ModelWatch.Daemon.Persistence;
@@ -77,11 +78,11 @@ internal static class AlertTransitions
     {
         Finding? evidence = decision.Evidence;
         string explanation = evidence?.Explanation ?? decision.Reason;
-        await connection.ExecuteAsync(command(
-            """
-            INSERT INTO modelwatch.alert_event (alert_id, transition, severity, state, run_id, actor, at, statistic, value, threshold, explanation)
-            VALUES (@alertId, @transition, @severity, @state, @runId, @actor, @now, @statistic, @value, @threshold, @explanation)
-            """,
+        long eventId = await connection.ExecuteScalarAsync<long>(command(
+            NotificationQueue.WithQueuedNotifications("""
+                INSERT INTO modelwatch.alert_event (alert_id, transition, severity, state, run_id, actor, at, statistic, value, threshold, explanation)
+                VALUES (@alertId, @transition, @severity, @state, @runId, @actor, @now, @statistic, @value, @threshold, @explanation)
+                """),
             new
             {
                 alertId,
@@ -96,7 +97,10 @@ internal static class AlertTransitions
                 threshold = FindingRow.Finite(evidence?.Threshold),
                 explanation,
             }));
-        return new AlertEvent(alertId, transition, model, decision.Check, decision.Subject, severity, state, evidence?.Statistic ?? "none", FindingRow.Finite(evidence?.Value), FindingRow.Finite(evidence?.Threshold), explanation, now);
+        return new AlertEvent(alertId, transition, model, decision.Check, decision.Subject, severity, state, evidence?.Statistic ?? "none", FindingRow.Finite(evidence?.Value), FindingRow.Finite(evidence?.Threshold), explanation, now)
+        {
+            EventId = eventId,
+        };
     }
 
 

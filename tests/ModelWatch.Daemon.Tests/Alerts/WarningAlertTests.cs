@@ -1,9 +1,7 @@
-using Dapper;
 using Microsoft.Extensions.Time.Testing;
 using ModelWatch.Checks.Findings;
 using ModelWatch.Checks.Policy;
 using ModelWatch.Daemon.Alerts;
-using ModelWatch.Daemon.Execution;
 using ModelWatch.Daemon.Persistence;
 using ModelWatch.Daemon.Tests.Support;
 using ModelWatch.Testing.Postgres;
@@ -18,7 +16,6 @@ public sealed class WarningAlertTests(PostgresDatabase database) : IClassFixture
         var time = new FakeTimeProvider(DaemonTestData.ReferenceEnd);
         await DaemonTestData.PrepareAsync(database, hours: 30);
         await DaemonTestData.RegisterAsync(database, time, "parcels-warned");
-        var recorder = new RunRecorder(database.DataSource, DaemonTestData.CommandTimeout);
         var thresholds = new CheckThresholds { WarningAlerts = true };
         List<AlertPolicyState> states = [];
         var transitions = new List<AlertEvent>();
@@ -37,16 +34,7 @@ public sealed class WarningAlertTests(PostgresDatabase database) : IClassFixture
             };
             IReadOnlyList<AlertDecision> decisions = AlertPolicy.Evaluate([result], states, "fingerprint-1", thresholds);
             states = [.. decisions.Select(d => d.State)];
-            await using (var connection = await database.DataSource.OpenConnectionAsync())
-            {
-                await connection.ExecuteAsync(
-                    "UPDATE modelwatch.model SET lease_owner = 'warner', lease_expires_at = @expires WHERE key = 'parcels-warned'",
-                    new { expires = slot.AddMinutes(10) });
-            }
-
-            RecordedRun recorded = await recorder.RecordAsync(
-                new RunOutcome { ModelKey = "parcels-warned", Slot = slot, Status = "ok", StartedAt = slot, Results = [result], Decisions = decisions },
-                "warner", slot.AddHours(1), slot.AddMinutes(1), CancellationToken.None);
+            RecordedRun recorded = await DaemonTestData.RecordUnderLeaseAsync(database, "parcels-warned", slot, [result], decisions);
             transitions.AddRange(recorded.Transitions);
         }
 

@@ -1,4 +1,8 @@
 using Microsoft.Extensions.Configuration;
+using ModelWatch.Checks.Findings;
+using ModelWatch.Checks.Policy;
+using ModelWatch.Daemon.Execution;
+using ModelWatch.Daemon.Persistence;
 using ModelWatch.Store.Baselines;
 using ModelWatch.Store.Configuration;
 using ModelWatch.Store.Migrations;
@@ -83,6 +87,28 @@ internal static class DaemonTestData
         var problems = new List<SpecProblem>();
         ModelSpec spec = ModelSpecValidator.FromYaml(key + ".yaml", Yaml(key, query), problems) ?? throw new ModelSpecException(problems);
         await new ModelRepository(database.DataSource, time, CommandTimeout).ApplyAsync([(spec, null)], prune: false, CancellationToken.None);
+    }
+
+    /// <summary>
+    /// Records a run of <paramref name="key"/> at <paramref name="slot"/> with the given results and decisions, as a
+    /// replica holding the lease would (the lease is taken here, so no scheduler is needed).
+    /// </summary>
+    public static async Task<RecordedRun> RecordUnderLeaseAsync(PostgresDatabase database, string key, DateTimeOffset slot, CheckResult[] results, IReadOnlyList<AlertDecision> decisions)
+    {
+        const string worker = "test-recorder";
+        await using (NpgsqlConnection connection = await database.DataSource.OpenConnectionAsync())
+        {
+            await using NpgsqlCommand lease = new("UPDATE modelwatch.model SET lease_owner = @worker, lease_expires_at = @expires WHERE key = @key", connection);
+            lease.Parameters.AddWithValue("worker", worker);
+            lease.Parameters.AddWithValue("expires", slot.AddMinutes(10));
+            lease.Parameters.AddWithValue("key", key);
+            await lease.ExecuteNonQueryAsync();
+        }
+
+        var recorder = new RunRecorder(database.DataSource, CommandTimeout);
+        return await recorder.RecordAsync(
+            new RunOutcome { ModelKey = key, Slot = slot, Status = "ok", StartedAt = slot, Results = results, Decisions = decisions },
+            worker, slot.AddHours(1), slot.AddMinutes(1), CancellationToken.None);
     }
 
     public static StoreDataSources DataSources(string connectionString) =>
