@@ -37,7 +37,10 @@ internal sealed class RowReservoir
         long slot = _random.NextInt64(index + 1);
         if (slot < Capacity)
         {
-            _rows[(int)slot] = (index, row.ToArray());
+            // The evicted row's array is the reservoir's own: reuse it, so a long window allocates nothing per row.
+            double[] kept = _rows[(int)slot].Row;
+            row.CopyTo(kept);
+            _rows[(int)slot] = (index, kept);
         }
     }
 
