@@ -107,6 +107,13 @@ public sealed partial class NotificationDispatcher(
         {
             try
             {
+                // A batch to a dead target can outlast the lease it was claimed with: renew each row's lease as its
+                // turn comes, and leave a row whose lease another replica has meanwhile taken.
+                if (!await RenewAsync(notification.Id, worker, cancellationToken))
+                {
+                    continue;
+                }
+
                 (string outcome, string? detail) = await DeliverAsync(notification, events[notification.EventId], cancellationToken);
                 await FinishAsync(notification.Id, worker, outcome, detail, cancellationToken);
             }
@@ -168,6 +175,17 @@ public sealed partial class NotificationDispatcher(
             "INSERT INTO modelwatch.notification_attempt (alert_id, alert_event, target, attempt, at, status_code, error) VALUES (@AlertId, @EventId, @Target, @Attempt, @At, @StatusCode, @Error)",
             attempts.Select(a => new { a.AlertId, EventId = eventId, a.Target, a.Attempt, a.At, a.StatusCode, a.Error }),
             cancellationToken));
+    }
+
+    private async Task<bool> RenewAsync(long id, string worker, CancellationToken cancellationToken)
+    {
+        await using NpgsqlConnection connection = await state.OpenConnectionAsync(cancellationToken);
+        DateTimeOffset now = time.GetUtcNow();
+        int renewed = await connection.ExecuteAsync(Command(
+            "UPDATE modelwatch.notification SET lease_expires_at = @expires WHERE id = @id AND lease_owner = @worker AND state = 'pending'",
+            new { id, worker, expires = now + options.CurrentValue.LeaseDuration },
+            cancellationToken));
+        return renewed == 1;
     }
 
     private async Task FinishAsync(long id, string worker, string outcome, string? detail, CancellationToken cancellationToken)
