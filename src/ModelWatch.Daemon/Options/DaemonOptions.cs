@@ -42,4 +42,12 @@ public sealed class DaemonOptions
     /// <summary>Time allowed for in-flight runs to finish on SIGTERM before they are abandoned. Default 30 s.</summary>
     [Range(typeof(TimeSpan), "00:00:01", "00:10:00")]
     public TimeSpan ShutdownTimeout { get; set; } = TimeSpan.FromSeconds(30);
+
+    /// <summary>
+    /// Memory the parsed baselines kept between runs may take, in MiB (estimated from their samples). Default 512:
+    /// about 500 models with full 5,000-row reference samples over ten features, or thousands of smaller ones. Past it
+    /// the least recently used baselines are dropped and read again at their model's next run.
+    /// </summary>
+    [Range(1, 1_048_576)]
+    public int BaselineCacheMegabytes { get; set; } = 512;
 }
