@@ -89,6 +89,11 @@ internal static class AlertsCommand
             foreach (AlertHistoryEntry entry in history)
             {
                 output.WriteLine($"  {CliJson.Time(entry.At)}  {entry.Transition,-12} {entry.Severity,-8} by {entry.Actor}{(entry.RunId is { } run ? $" (run {run})" : string.Empty)}: {entry.Explanation}");
+                foreach (NotificationStatus notification in entry.Notifications)
+                {
+                    string attempts = notification.Attempts == 1 ? "1 attempt" : $"{notification.Attempts} attempts";
+                    output.WriteLine($"      → {notification.Target}: {notification.State}{(notification.Detail is null ? string.Empty : " (" + notification.Detail + ")")}, {attempts}");
+                }
             }
 
             return ExitCodes.Ok;
@@ -190,6 +195,19 @@ internal static class AlertsCommand
                 JsonNumbers.Write(writer, "value", entry.Value);
                 JsonNumbers.Write(writer, "threshold", entry.Threshold);
                 writer.WriteString("explanation", entry.Explanation);
+                writer.WriteStartArray("notifications");
+                foreach (NotificationStatus notification in entry.Notifications)
+                {
+                    writer.WriteStartObject();
+                    writer.WriteString("target", notification.Target);
+                    writer.WriteString("state", notification.State);
+                    writer.WriteString("detail", notification.Detail);
+                    writer.WriteNumber("attempts", notification.Attempts);
+                    CliJson.WriteTime(writer, "finished_at", notification.FinishedAt);
+                    writer.WriteEndObject();
+                }
+
+                writer.WriteEndArray();
                 writer.WriteEndObject();
             }
 

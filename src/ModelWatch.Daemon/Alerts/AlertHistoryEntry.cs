@@ -3,6 +3,9 @@ namespace ModelWatch.Daemon.Alerts;
 /// <summary>One recorded transition of an alert.</summary>
 public sealed class AlertHistoryEntry
 {
+    /// <summary>The stored event's id (the <c>event_id</c> of its notifications).</summary>
+    public long EventId { get; set; }
+
     /// <summary>opened, reopened, escalated, acknowledged, resolved.</summary>
     public string Transition { get; set; } = string.Empty;
 
@@ -32,4 +35,7 @@ public sealed class AlertHistoryEntry
 
     /// <summary>Explanation or operator note.</summary>
     public string Explanation { get; set; } = string.Empty;
+
+    /// <summary>The notifications this transition queued, one per target the model's spec names.</summary>
+    public IReadOnlyList<NotificationStatus> Notifications { get; set; } = [];
 }

@@ -49,16 +49,30 @@ public sealed class AlertRepository(NpgsqlDataSource dataSource, TimeSpan comman
     public async Task<IReadOnlyList<AlertHistoryEntry>> HistoryAsync(long id, CancellationToken cancellationToken)
     {
         await using NpgsqlConnection connection = await dataSource.OpenConnectionAsync(cancellationToken);
-        var rows = await connection.QueryAsync<AlertHistoryEntry>(new CommandDefinition(
+        var rows = (await connection.QueryAsync<AlertHistoryEntry>(new CommandDefinition(
             """
-            SELECT transition AS Transition, severity AS Severity, state AS State, run_id AS RunId, actor AS Actor, at AS At,
+            SELECT id AS EventId, transition AS Transition, severity AS Severity, state AS State, run_id AS RunId, actor AS Actor, at AS At,
                    statistic AS Statistic, value AS Value, threshold AS Threshold, explanation AS Explanation
               FROM modelwatch.alert_event WHERE alert_id = @id ORDER BY id
             """,
             new { id },
             commandTimeout: Seconds,
-            cancellationToken: cancellationToken));
-        return rows.ToList();
+            cancellationToken: cancellationToken))).ToList();
+        var notifications = (await connection.QueryAsync<NotificationStatus>(new CommandDefinition(
+            """
+            SELECT n.alert_event_id AS EventId, n.target AS Target, n.state AS State, n.detail AS Detail, n.finished_at AS FinishedAt,
+                   (SELECT count(*) FROM modelwatch.notification_attempt t WHERE t.alert_event = n.alert_event_id AND t.target = n.target)::int AS Attempts
+              FROM modelwatch.notification n WHERE n.alert_id = @id ORDER BY n.id
+            """,
+            new { id },
+            commandTimeout: Seconds,
+            cancellationToken: cancellationToken))).ToLookup(n => n.EventId);
+        foreach (AlertHistoryEntry entry in rows)
+        {
+            entry.Notifications = [.. notifications[entry.EventId]];
+        }
+
+        return rows;
     }
 
     /// <summary>Acknowledges an open alert. Returns the problem, or null on success.</summary>

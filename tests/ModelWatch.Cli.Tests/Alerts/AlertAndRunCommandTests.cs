@@ -27,6 +27,7 @@ public sealed class AlertAndRunCommandTests(PostgresDatabase database) : IClassF
             features: [km]
             schedule: 1h
             window: 1d
+            notify: [florist-pager]
             """);
         Assert.Equal(0, (await Cli("model", "apply", Path.Combine(folder, "florist-minutes.yaml"))).ExitCode);
         Directory.Delete(folder, recursive: true);
@@ -96,6 +97,14 @@ public sealed class AlertAndRunCommandTests(PostgresDatabase database) : IClassF
         Assert.Equal("dana", shown.RootElement.GetProperty("acknowledged_by").GetString());
         Assert.Equal("dana", shown.RootElement.GetProperty("resolved_by").GetString());
         Assert.Equal(["opened", "acknowledged", "resolved"], shown.RootElement.GetProperty("history").EnumerateArray().Select(h => h.GetProperty("transition").GetString()));
+
+        // The engineer's transitions queued a notification for the model's target; no daemon runs here to send it.
+        JsonElement acknowledged = shown.RootElement.GetProperty("history")[1];
+        JsonElement queued = Assert.Single(acknowledged.GetProperty("notifications").EnumerateArray());
+        Assert.Equal(["target", "state", "detail", "attempts", "finished_at"], queued.EnumerateObject().Select(p => p.Name));
+        Assert.Equal("florist-pager", queued.GetProperty("target").GetString());
+        Assert.Equal("pending", queued.GetProperty("state").GetString());
+        Assert.Equal(0, queued.GetProperty("attempts").GetInt32());
         using JsonDocument remaining = JsonDocument.Parse(unresolved.Output);
         Assert.DoesNotContain(remaining.RootElement.EnumerateArray(), a => a.GetProperty("id").GetInt64() == _alertId);
     }

@@ -58,6 +58,8 @@ public sealed class DurableNotificationTests(PostgresDatabase database) : IClass
         Assert.Equal(3, events.Count(e => e.GetProperty("event").GetString() == "modelwatch.alert.opened"));
         Assert.Single(events, e => e.GetProperty("event").GetString() == "modelwatch.alert.acknowledged");
         Assert.Equal(0, await DaemonTestData.ScalarAsync(database.DataSource, Pending));
+        IReadOnlyList<AlertHistoryEntry> history = await alerts.HistoryAsync(recorded.Transitions[0].AlertId, CancellationToken.None);
+        Assert.All(history, h => Assert.Equal(("channel", "delivered", 1), Assert.Single(h.Notifications) is var n ? (n.Target, n.State, n.Attempts) : default));
         Assert.Equal(4, await DaemonTestData.ScalarAsync(database.DataSource,
             "SELECT count(*) FROM modelwatch.notification_attempt t JOIN modelwatch.alert a ON a.id = t.alert_id WHERE a.model_key = 'parcels-queued' AND t.alert_event IS NOT NULL AND t.error IS NULL"));
     }
