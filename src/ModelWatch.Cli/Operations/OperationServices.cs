@@ -80,9 +80,8 @@ internal sealed class OperationServices : IAsyncDisposable
     /// <summary>The live run memory of a model, copied into process memory so that nothing is written back.</summary>
     public async Task<InMemoryRunMemory> LiveMemoryAsync(string key, CancellationToken cancellationToken)
     {
-        var (checks, policy) = await Recorder.LoadStatesAsync(key, cancellationToken);
-        DateTimeOffset? lastEnd = await Recorder.LastWindowEndAsync(key, cancellationToken);
-        return new InMemoryRunMemory(checks, policy, lastEnd);
+        RunRecollection live = await Recorder.RecallAsync(key, cancellationToken);
+        return new InMemoryRunMemory(live.Checks, live.Policy, live.LastWindowEnd);
     }
 
     public ValueTask DisposeAsync() => _provider.DisposeAsync();

@@ -1,6 +1,3 @@
-using ModelWatch.Checks.Findings;
-using ModelWatch.Checks.Policy;
-
 namespace ModelWatch.Daemon.Execution;
 
 /// <summary>
@@ -10,9 +7,6 @@ namespace ModelWatch.Daemon.Execution;
 /// </summary>
 public interface IRunMemory
 {
-    /// <summary>The persisted check states (by check name) and alert policy states of a model.</summary>
-    Task<(Dictionary<string, CheckState> Checks, List<AlertPolicyState> Policy)> LoadStatesAsync(string modelKey, CancellationToken cancellationToken);
-
-    /// <summary>End of the window of the model's latest run that read rows, or null before the first.</summary>
-    Task<DateTimeOffset?> LastWindowEndAsync(string modelKey, CancellationToken cancellationToken);
+    /// <summary>Everything a run of the model takes over from earlier runs, in one read.</summary>
+    Task<RunRecollection> RecallAsync(string modelKey, CancellationToken cancellationToken);
 }

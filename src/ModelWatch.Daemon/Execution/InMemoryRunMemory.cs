@@ -31,11 +31,8 @@ public sealed class InMemoryRunMemory : IRunMemory
     }
 
     /// <inheritdoc />
-    public Task<(Dictionary<string, CheckState> Checks, List<AlertPolicyState> Policy)> LoadStatesAsync(string modelKey, CancellationToken cancellationToken) =>
-        Task.FromResult((new Dictionary<string, CheckState>(_checks, StringComparer.Ordinal), _policy.Values.ToList()));
-
-    /// <inheritdoc />
-    public Task<DateTimeOffset?> LastWindowEndAsync(string modelKey, CancellationToken cancellationToken) => Task.FromResult(_lastWindowEnd);
+    public Task<RunRecollection> RecallAsync(string modelKey, CancellationToken cancellationToken) =>
+        Task.FromResult(new RunRecollection(new Dictionary<string, CheckState>(_checks, StringComparer.Ordinal), [.. _policy.Values], _lastWindowEnd));
 
     /// <summary>Carries a finished run's states forward, as recording it in the database would.</summary>
     public void Remember(RunOutcome outcome)

@@ -67,6 +67,11 @@ public sealed class RunPipeline(
         }
 
         var stages = new Dictionary<string, double>(StringComparer.Ordinal);
+
+        // Nothing else writes this model's memory while the lease is held, so it is read once, before the window. A state
+        // database fault here is not the model's: it propagates, the run is not recorded, and the slot is retried.
+        RunRecollection recollection = await memory.RecallAsync(spec.Key, cancellationToken);
+
         WindowReadResult<WindowSummarySink> read;
         long t0 = time.GetTimestamp();
         using (Activity? span = ModelWatchActivitySource.Instance.StartActivity("modelwatch.run.read"))
@@ -77,7 +82,7 @@ public sealed class RunPipeline(
                 var options = new WindowSummaryOptions();
                 // Rows after both the previous run's window and the baseline's reference window are new: the sequential
                 // statistics consume only rows that no earlier fit has seen.
-                DateTimeOffset? lastEnd = await memory.LastWindowEndAsync(spec.Key, cancellationToken);
+                DateTimeOffset? lastEnd = recollection.LastWindowEnd;
                 DateTimeOffset? newFrom = (lastEnd, baseline.ReferenceWindowEnd) switch
                 {
                     ({ } a, { } b) => a > b ? a : b,
@@ -115,9 +120,8 @@ public sealed class RunPipeline(
         IReadOnlyList<AlertDecision> decisions;
         using (ModelWatchActivitySource.Instance.StartActivity("modelwatch.run.checks"))
         {
-            (Dictionary<string, CheckState> checkStates, List<AlertPolicyState> policyStates) = await memory.LoadStatesAsync(spec.Key, cancellationToken);
-            results = ModelChecks.Run(baseline.Reference, summary, start, end, checkStates, thresholds);
-            decisions = AlertPolicy.Evaluate(results, policyStates, baseline.Reference.Fingerprint, thresholds);
+            results = ModelChecks.Run(baseline.Reference, summary, start, end, recollection.Checks, thresholds);
+            decisions = AlertPolicy.Evaluate(results, recollection.Policy, baseline.Reference.Fingerprint, thresholds);
         }
 
         stages["checks"] = time.GetElapsedTime(t2).TotalSeconds;

@@ -149,29 +149,27 @@ public sealed class RunRecorder(NpgsqlDataSource state, TimeSpan commandTimeout)
         return new RecordedRun(runId, transitions, LeaseLost: false, AlreadyRecorded: false);
     }
 
-    /// <summary>Loads the persisted check states and alert policy states of a model.</summary>
-    public async Task<(Dictionary<string, CheckState> Checks, List<AlertPolicyState> Policy)> LoadStatesAsync(string modelKey, CancellationToken cancellationToken)
+    /// <summary>
+    /// The model's persisted check states, alert policy states and the end of its latest window that read rows, in
+    /// one round trip.
+    /// </summary>
+    public async Task<RunRecollection> RecallAsync(string modelKey, CancellationToken cancellationToken)
     {
         await using NpgsqlConnection connection = await state.OpenConnectionAsync(cancellationToken);
-        var checks = await connection.QueryAsync<(string Check, string State)>(new CommandDefinition(
-            "SELECT check_name, state::text FROM modelwatch.check_state WHERE model_key = @modelKey AND subject IS NULL",
+        await using SqlMapper.GridReader grid = await connection.QueryMultipleAsync(new CommandDefinition(
+            """
+            SELECT check_name, state::text FROM modelwatch.check_state WHERE model_key = @modelKey AND subject IS NULL;
+            SELECT state::text FROM modelwatch.alert_policy_state WHERE model_key = @modelKey;
+            SELECT max(window_end) FROM modelwatch.run WHERE model_key = @modelKey AND rows_read > 0;
+            """,
             new { modelKey }, commandTimeout: Seconds, cancellationToken: cancellationToken));
-        var policy = await connection.QueryAsync<string>(new CommandDefinition(
-            "SELECT state::text FROM modelwatch.alert_policy_state WHERE model_key = @modelKey",
-            new { modelKey }, commandTimeout: Seconds, cancellationToken: cancellationToken));
-        return (
+        var checks = await grid.ReadAsync<(string Check, string State)>();
+        var policy = await grid.ReadAsync<string>();
+        DateTime? end = await grid.ReadSingleAsync<DateTime?>();
+        return new RunRecollection(
             checks.ToDictionary(c => c.Check, c => JsonSerializer.Deserialize<CheckState>(c.State, StateJson.Options)!, StringComparer.Ordinal),
-            policy.Select(p => JsonSerializer.Deserialize<AlertPolicyState>(p, StateJson.Options)!).ToList());
-    }
-
-    /// <summary>End of the window of the model's latest recorded run (any status that read rows), or null for a first run.</summary>
-    public async Task<DateTimeOffset?> LastWindowEndAsync(string modelKey, CancellationToken cancellationToken)
-    {
-        await using NpgsqlConnection connection = await state.OpenConnectionAsync(cancellationToken);
-        DateTime? end = await connection.ExecuteScalarAsync<DateTime?>(new CommandDefinition(
-            "SELECT max(window_end) FROM modelwatch.run WHERE model_key = @modelKey AND rows_read > 0",
-            new { modelKey }, commandTimeout: Seconds, cancellationToken: cancellationToken));
-        return end is { } e ? new DateTimeOffset(DateTime.SpecifyKind(e, DateTimeKind.Utc)) : null;
+            [.. policy.Select(p => JsonSerializer.Deserialize<AlertPolicyState>(p, StateJson.Options)!)],
+            end is { } e ? new DateTimeOffset(DateTime.SpecifyKind(e, DateTimeKind.Utc)) : null);
     }
 
     private int Seconds => (int)Math.Ceiling(commandTimeout.TotalSeconds);
