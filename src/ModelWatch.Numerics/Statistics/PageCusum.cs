@@ -33,16 +33,22 @@ public static class PageCusum
         ArgumentOutOfRangeException.ThrowIfNegativeOrZero(threshold);
         ArgumentOutOfRangeException.ThrowIfLessThan(states, 2);
         double w = 2.0 * threshold / ((2.0 * states) - 1.0);
+
+        // A step from state i to state j depends on j − i only: Φ at the 2t − 1 cell edges (m + ½)w + k − μ,
+        // m = −t..t−1, gives every transition probability, instead of t² evaluations.
+        var edge = new double[2 * states];
+        for (int m = -states; m < states; m++)
+        {
+            edge[m + states] = StandardDistributions.NormalCdf(((m + 0.5) * w) + reference - shift);
+        }
+
         var a = Matrix<double>.Build.Dense(states, states);
         for (int i = 0; i < states; i++)
         {
-            double from = i * w;
-            a[i, 0] = -StandardDistributions.NormalCdf((w / 2.0) - from + reference - shift);
+            a[i, 0] = -edge[states - i];
             for (int j = 1; j < states; j++)
             {
-                double hi = ((j + 0.5) * w) - from + reference - shift;
-                double lo = ((j - 0.5) * w) - from + reference - shift;
-                a[i, j] = -(StandardDistributions.NormalCdf(hi) - StandardDistributions.NormalCdf(lo));
+                a[i, j] = -(edge[j - i + states] - edge[j - i - 1 + states]);
             }
 
             a[i, i] += 1.0;
@@ -56,7 +62,9 @@ public static class PageCusum
     public static double TwoSidedArlMarkov(double threshold, double reference, double shift, int states = DefaultStates)
     {
         double up = OneSidedArlMarkov(threshold, reference, shift, states);
-        double down = OneSidedArlMarkov(threshold, reference, -shift, states);
+
+        // In control the two sides are mirror images: one chain serves both.
+        double down = shift == 0.0 ? up : OneSidedArlMarkov(threshold, reference, -shift, states);
         return 1.0 / ((1.0 / up) + (1.0 / down));
     }
 
