@@ -27,7 +27,12 @@ public sealed partial class RunCompletion(
     TimeProvider time,
     ILogger<RunCompletion> logger)
 {
-    private readonly System.Collections.Concurrent.ConcurrentDictionary<string, (int Warnings, int Criticals, DateTimeOffset Counted)> _openAlerts = new(StringComparer.Ordinal);
+    // Open alerts by model, for the gauges: recounted for a model after its own transitions, and for every model at
+    // once (one query) at most every five minutes, which picks up operators' acks and resolves made elsewhere.
+    private static readonly TimeSpan RecountInterval = TimeSpan.FromMinutes(5);
+    private System.Collections.Concurrent.ConcurrentDictionary<string, (int Warnings, int Criticals)> _openAlerts = new(StringComparer.Ordinal);
+    private long _countedAtTicks = DateTimeOffset.MinValue.UtcTicks;
+    private int _recounting;
 
     /// <summary>Records the outcome and publishes what it changed; returns what was recorded.</summary>
     public async Task<RecordedRun> CompleteAsync(ModelRecord model, RunOutcome outcome, DateTimeOffset nextDue, CancellationToken cancellationToken)
@@ -69,17 +74,52 @@ public sealed partial class RunCompletion(
 
         if (outcome.Gauges is { } gauges)
         {
-            // Open-alert counts change with a transition, or with an operator's command elsewhere: count them after a
-            // transition, and otherwise at most every five minutes per model.
-            (int warnings, int criticals, DateTimeOffset counted) = recorded.Transitions.Count > 0 || !_openAlerts.TryGetValue(outcome.ModelKey, out var known) || now - known.Counted > TimeSpan.FromMinutes(5)
-                ? (await OpenAlertsAsync(outcome.ModelKey, cancellationToken) is var c ? (c.Warnings, c.Criticals, now) : default)
-                : known;
-            _openAlerts[outcome.ModelKey] = (warnings, criticals, counted);
+            if (recorded.Transitions.Count > 0)
+            {
+                _openAlerts[outcome.ModelKey] = await OpenAlertsAsync(outcome.ModelKey, cancellationToken);
+            }
+            else if (now.UtcTicks - Interlocked.Read(ref _countedAtTicks) > RecountInterval.Ticks)
+            {
+                await RecountAllAsync(now, cancellationToken);
+            }
+
+            (int warnings, int criticals) = _openAlerts.GetValueOrDefault(outcome.ModelKey);
             metrics.Update(outcome.ModelKey, gauges with { OpenWarnings = warnings, OpenCriticals = criticals });
         }
 
         LogRecorded(logger, outcome.ModelKey, outcome.Slot, outcome.Status, outcome.Reason ?? "-", outcome.RowsRead, recorded.Transitions.Count);
         return recorded;
+    }
+
+    private async Task RecountAllAsync(DateTimeOffset now, CancellationToken cancellationToken)
+    {
+        // One run recounts; runs finishing meanwhile use the counts they find.
+        if (Interlocked.CompareExchange(ref _recounting, 1, 0) != 0)
+        {
+            return;
+        }
+
+        try
+        {
+            await using NpgsqlConnection connection = await state.OpenConnectionAsync(cancellationToken);
+            var rows = await connection.QueryAsync<(string Model, string Severity, int Count)>(new CommandDefinition(
+                "SELECT model_key, severity, count(*)::int FROM modelwatch.alert WHERE state <> 'resolved' GROUP BY model_key, severity",
+                commandTimeout: 30,
+                cancellationToken: cancellationToken));
+            var counts = new System.Collections.Concurrent.ConcurrentDictionary<string, (int Warnings, int Criticals)>(StringComparer.Ordinal);
+            foreach ((string model, string severity, int count) in rows)
+            {
+                (int warnings, int criticals) = counts.GetValueOrDefault(model);
+                counts[model] = severity == "critical" ? (warnings, criticals + count) : (warnings + count, criticals);
+            }
+
+            _openAlerts = counts;
+            Interlocked.Exchange(ref _countedAtTicks, now.UtcTicks);
+        }
+        finally
+        {
+            Interlocked.Exchange(ref _recounting, 0);
+        }
     }
 
     private async Task<(int Warnings, int Criticals)> OpenAlertsAsync(string model, CancellationToken cancellationToken)
