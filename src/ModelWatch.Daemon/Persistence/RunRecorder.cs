@@ -16,41 +16,44 @@ namespace ModelWatch.Daemon.Persistence;
 /// </summary>
 public sealed class RunRecorder(NpgsqlDataSource state, TimeSpan commandTimeout) : IRunMemory
 {
-    private const string FenceSql = """
-        UPDATE modelwatch.model
-           SET next_due_slot = @nextDue, lease_owner = NULL, lease_expires_at = NULL
-         WHERE key = @key AND lease_owner = @worker AND lease_expires_at > @now
+    // The fence comes first: if this worker no longer holds a live lease it touches no row, the run insert (fed from
+    // it) inserts nothing, and the caller rolls back. A fenced slot that another replica already recorded conflicts on
+    // the run's unique (model, slot) key and returns no id.
+    private const string FenceAndInsertRunSql = """
+        WITH fence AS (
+            UPDATE modelwatch.model
+               SET next_due_slot = @NextDue, lease_owner = NULL, lease_expires_at = NULL
+             WHERE key = @ModelKey AND lease_owner = @Worker AND lease_expires_at > @Now
+            RETURNING key
+        ), inserted AS (
+            INSERT INTO modelwatch.run (model_key, slot, baseline_version, window_start, window_end, rows_read, rows_rejected,
+                                        rejected_reasons, status, reason, stage_timings, worker_id, started_at, finished_at)
+            SELECT fence.key, @Slot, @BaselineVersion, @WindowStart, @WindowEnd, @RowsRead, @RowsRejected,
+                   @RejectedReasons::jsonb, @Status, @Reason, @StageTimings::jsonb, @Worker, @StartedAt, @Now
+              FROM fence
+            ON CONFLICT (model_key, slot) DO NOTHING
+            RETURNING id
+        )
+        SELECT (SELECT count(*) FROM fence)::int AS Fenced, (SELECT id FROM inserted) AS RunId
         """;
 
-    private const string InsertRunSql = """
-        INSERT INTO modelwatch.run (model_key, slot, baseline_version, window_start, window_end, rows_read, rows_rejected,
-                                    rejected_reasons, status, reason, stage_timings, worker_id, started_at, finished_at)
-        VALUES (@ModelKey, @Slot, @BaselineVersion, @WindowStart, @WindowEnd, @RowsRead, @RowsRejected,
-                @RejectedReasons::jsonb, @Status, @Reason, @StageTimings::jsonb, @Worker, @StartedAt, @FinishedAt)
-        ON CONFLICT (model_key, slot) DO NOTHING
-        RETURNING id
-        """;
-
-    // Findings and states go in one statement each (arrays unnested server-side): a run writes dozens of rows,
-    // and a round trip per row was most of the daemon's per-run overhead.
-    private const string InsertFindingsSql = """
-        INSERT INTO modelwatch.finding (run_id, check_name, subject, statistic, value, p_value, threshold, effect_size, severity, explanation, details)
-        SELECT @runId, f.check_name, f.subject, f.statistic, f.value, f.p_value, f.threshold, f.effect_size, f.severity, f.explanation, f.details::jsonb
-          FROM unnest(@checks, @subjects, @statistics, @values, @pValues, @thresholds, @effects, @severities, @explanations, @details)
-               AS f(check_name, subject, statistic, value, p_value, threshold, effect_size, severity, explanation, details)
-        ON CONFLICT DO NOTHING
-        """;
-
-    private const string UpsertCheckStatesSql = """
-        INSERT INTO modelwatch.check_state (model_key, check_name, subject, state, last_run_id, updated_at)
-        SELECT @key, s.check_name, NULL, s.state::jsonb, @runId, @now FROM unnest(@checks, @states) AS s(check_name, state)
-        ON CONFLICT (model_key, check_name, subject) DO UPDATE
-           SET state = EXCLUDED.state, last_run_id = EXCLUDED.last_run_id, updated_at = EXCLUDED.updated_at
-        """;
-
-    private const string UpsertPolicyStatesSql = """
+    // Findings, check states and alert-policy states in one statement (arrays unnested server-side): a round trip per
+    // row, or even per table, was most of the daemon's per-run overhead. Empty arrays simply write nothing.
+    private const string WriteResultsSql = """
+        WITH findings AS (
+            INSERT INTO modelwatch.finding (run_id, check_name, subject, statistic, value, p_value, threshold, effect_size, severity, explanation, details)
+            SELECT @runId, f.check_name, f.subject, f.statistic, f.value, f.p_value, f.threshold, f.effect_size, f.severity, f.explanation, f.details::jsonb
+              FROM unnest(@checks, @subjects, @statistics, @values, @pValues, @thresholds, @effects, @severities, @explanations, @details)
+                   AS f(check_name, subject, statistic, value, p_value, threshold, effect_size, severity, explanation, details)
+            ON CONFLICT DO NOTHING
+        ), check_states AS (
+            INSERT INTO modelwatch.check_state (model_key, check_name, subject, state, last_run_id, updated_at)
+            SELECT @key, s.check_name, NULL, s.state::jsonb, @runId, @now FROM unnest(@stateChecks, @states) AS s(check_name, state)
+            ON CONFLICT (model_key, check_name, subject) DO UPDATE
+               SET state = EXCLUDED.state, last_run_id = EXCLUDED.last_run_id, updated_at = EXCLUDED.updated_at
+        )
         INSERT INTO modelwatch.alert_policy_state (model_key, check_name, subject, state, updated_at)
-        SELECT @key, s.check_name, s.subject, s.state::jsonb, @now FROM unnest(@checks, @subjects, @states) AS s(check_name, subject, state)
+        SELECT @key, s.check_name, s.subject, s.state::jsonb, @now FROM unnest(@policyChecks, @policySubjects, @policyStates) AS s(check_name, subject, state)
         ON CONFLICT (model_key, check_name, subject) DO UPDATE SET state = EXCLUDED.state, updated_at = EXCLUDED.updated_at
         """;
 
@@ -62,14 +65,7 @@ public sealed class RunRecorder(NpgsqlDataSource state, TimeSpan commandTimeout)
         await using NpgsqlTransaction transaction = await connection.BeginTransactionAsync(cancellationToken);
         CommandDefinition Command(string sql, object? args) => new(sql, args, transaction, Seconds, cancellationToken: cancellationToken);
 
-        int fenced = await connection.ExecuteAsync(Command(FenceSql, new { key = outcome.ModelKey, worker, now, nextDue }));
-        if (fenced == 0)
-        {
-            await transaction.RollbackAsync(cancellationToken);
-            return new RecordedRun(null, [], LeaseLost: true, AlreadyRecorded: false);
-        }
-
-        long? runId = await connection.QuerySingleOrDefaultAsync<long?>(Command(InsertRunSql, new
+        (int fenced, long? runId) = await connection.QuerySingleAsync<(int, long?)>(Command(FenceAndInsertRunSql, new
         {
             outcome.ModelKey,
             outcome.Slot,
@@ -84,8 +80,15 @@ public sealed class RunRecorder(NpgsqlDataSource state, TimeSpan commandTimeout)
             StageTimings = JsonSerializer.Serialize(outcome.StageSeconds),
             Worker = worker,
             outcome.StartedAt,
-            FinishedAt = now,
+            Now = now,
+            NextDue = nextDue,
         }));
+        if (fenced == 0)
+        {
+            await transaction.RollbackAsync(cancellationToken);
+            return new RecordedRun(null, [], LeaseLost: true, AlreadyRecorded: false);
+        }
+
         if (runId is null)
         {
             await transaction.CommitAsync(cancellationToken);
@@ -93,47 +96,27 @@ public sealed class RunRecorder(NpgsqlDataSource state, TimeSpan commandTimeout)
         }
 
         List<FindingRow> findings = [.. outcome.Results.SelectMany(r => r.Findings).Select(f => FindingRow.From(runId.Value, f))];
-        if (findings.Count > 0)
+        await connection.ExecuteAsync(Command(WriteResultsSql, new
         {
-            await connection.ExecuteAsync(Command(InsertFindingsSql, new
-            {
-                runId,
-                checks = findings.Select(f => f.Check).ToArray(),
-                subjects = findings.Select(f => f.Subject).ToArray(),
-                statistics = findings.Select(f => f.Statistic).ToArray(),
-                values = findings.Select(f => f.Value).ToArray(),
-                pValues = findings.Select(f => f.PValue).ToArray(),
-                thresholds = findings.Select(f => f.Threshold).ToArray(),
-                effects = findings.Select(f => f.EffectSize).ToArray(),
-                severities = findings.Select(f => f.Severity).ToArray(),
-                explanations = findings.Select(f => f.Explanation).ToArray(),
-                details = findings.Select(f => f.Details).ToArray(),
-            }));
-        }
-
-        if (outcome.Results.Count > 0)
-        {
-            await connection.ExecuteAsync(Command(UpsertCheckStatesSql, new
-            {
-                key = outcome.ModelKey,
-                checks = outcome.Results.Select(r => r.Check).ToArray(),
-                states = outcome.Results.Select(r => JsonSerializer.Serialize(r.State, StateJson.Options)).ToArray(),
-                runId,
-                now,
-            }));
-        }
-
-        if (outcome.Decisions.Count > 0)
-        {
-            await connection.ExecuteAsync(Command(UpsertPolicyStatesSql, new
-            {
-                key = outcome.ModelKey,
-                checks = outcome.Decisions.Select(d => d.Check).ToArray(),
-                subjects = outcome.Decisions.Select(d => d.Subject).ToArray(),
-                states = outcome.Decisions.Select(d => JsonSerializer.Serialize(d.State, StateJson.Options)).ToArray(),
-                now,
-            }));
-        }
+            runId,
+            key = outcome.ModelKey,
+            now,
+            checks = findings.Select(f => f.Check).ToArray(),
+            subjects = findings.Select(f => f.Subject).ToArray(),
+            statistics = findings.Select(f => f.Statistic).ToArray(),
+            values = findings.Select(f => f.Value).ToArray(),
+            pValues = findings.Select(f => f.PValue).ToArray(),
+            thresholds = findings.Select(f => f.Threshold).ToArray(),
+            effects = findings.Select(f => f.EffectSize).ToArray(),
+            severities = findings.Select(f => f.Severity).ToArray(),
+            explanations = findings.Select(f => f.Explanation).ToArray(),
+            details = findings.Select(f => f.Details).ToArray(),
+            stateChecks = outcome.Results.Select(r => r.Check).ToArray(),
+            states = outcome.Results.Select(r => JsonSerializer.Serialize(r.State, StateJson.Options)).ToArray(),
+            policyChecks = outcome.Decisions.Select(d => d.Check).ToArray(),
+            policySubjects = outcome.Decisions.Select(d => d.Subject).ToArray(),
+            policyStates = outcome.Decisions.Select(d => JsonSerializer.Serialize(d.State, StateJson.Options)).ToArray(),
+        }));
 
         var transitions = new List<AlertEvent>();
         foreach (AlertDecision decision in outcome.Decisions.Where(d => d.Action != AlertAction.None))
