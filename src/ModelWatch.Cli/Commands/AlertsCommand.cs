@@ -7,14 +7,14 @@ using ModelWatch.Daemon.Alerts;
 namespace ModelWatch.Cli.Commands;
 
 /// <summary>
-/// <c>modelwatch alerts list|show|ack|resolve|silence</c>: triage from the command line. Changes record the actor
+/// <c>modelwatch alerts list|show|ack|resolve|silence|resend</c>: triage from the command line. Changes record the actor
 /// (<c>--actor</c>, default the current user) and an optional <c>--note</c>.
 /// </summary>
 internal static class AlertsCommand
 {
-    public static Command Create() => new("alerts", "Alert triage: list, show, acknowledge, resolve, silence")
+    public static Command Create() => new("alerts", "Alert triage: list, show, acknowledge, resolve, silence, resend notifications")
     {
-        List(), Show(), Change("ack", "Acknowledge an open alert"), Change("resolve", "Resolve an open or acknowledged alert"), Silence(),
+        List(), Show(), Change("ack", "Acknowledge an open alert"), Change("resolve", "Resolve an open or acknowledged alert"), Silence(), Resend(),
     };
 
     private static Command List()
@@ -147,6 +147,40 @@ internal static class AlertsCommand
 
             long silence = await Repository(databases).SilenceAsync(parse.GetRequiredValue(key), parse.GetValue(check), end, parse.GetRequiredValue(reason), parse.GetRequiredValue(actor), now, ct);
             output.WriteLine($"silence {silence}: notifications for {parse.GetRequiredValue(key)}{(parse.GetValue(check) is { } c ? " / " + c : string.Empty)} stop until {CliJson.Time(end)}");
+            return ExitCodes.Ok;
+        }, cancellationToken));
+        return command;
+    }
+
+    private static Command Resend()
+    {
+        var id = new Argument<long?>("id") { Description = "Alert id (or --since for every alert)", Arity = ArgumentArity.ZeroOrOne };
+        var since = StoreCommandRunner.TimeOption("--since", "Notifications queued since this time, of any alert", required: false);
+        var target = new Option<string?>("--target") { Description = "Only this notification target" };
+        var database = StoreCommandRunner.DatabaseOption();
+        var command = new Command("resend", "Queue failed or skipped notifications again (after a target's outage or a configuration fix)") { id, since, target, database };
+        command.Validators.Add(result =>
+        {
+            bool hasId = result.GetResult(id) is { Tokens.Count: > 0 };
+            bool hasSince = result.GetResult(since) is { Tokens.Count: > 0 };
+            if (hasId == hasSince)
+            {
+                result.AddError("give an alert id or --since, not both and not neither");
+            }
+        });
+        command.SetAction((parse, cancellationToken) => StoreCommandRunner.RunAsync(parse, "alerts resend", database, async (databases, output, ct) =>
+        {
+            AlertRepository repository = Repository(databases);
+            long? alertId = parse.GetValue(id);
+            if (alertId is { } one && await repository.GetAsync(one, ct) is null)
+            {
+                parse.InvocationConfiguration.Error.WriteLine($"modelwatch alerts resend: alert {one} does not exist");
+                return ExitCodes.RuntimeError;
+            }
+
+            DateTimeOffset? from = parse.GetValue(since) is { } text ? StoreCommandRunner.ParseTime("--since", text) : null;
+            int queued = await repository.ResendAsync(alertId, from, parse.GetValue(target), ct);
+            output.WriteLine($"{queued} notification(s) queued again; a running daemon sends them within Notifications:PollInterval");
             return ExitCodes.Ok;
         }, cancellationToken));
         return command;

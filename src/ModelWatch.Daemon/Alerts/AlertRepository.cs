@@ -83,6 +83,28 @@ public sealed class AlertRepository(NpgsqlDataSource dataSource, TimeSpan comman
     public Task<string?> ResolveAsync(long id, string actor, string? note, DateTimeOffset now, CancellationToken cancellationToken) =>
         TransitionAsync(id, "resolved", ["open", "acknowledged"], actor, note, now, cancellationToken);
 
+    /// <summary>
+    /// Queues again the notifications that failed or were skipped — of one alert, or created since a time — optionally
+    /// only to one target; the dispatcher applies its rules afresh (a silence still in force skips them again).
+    /// Returns how many were queued.
+    /// </summary>
+    public async Task<int> ResendAsync(long? alertId, DateTimeOffset? since, string? target, CancellationToken cancellationToken)
+    {
+        await using NpgsqlConnection connection = await dataSource.OpenConnectionAsync(cancellationToken);
+        return await connection.ExecuteAsync(new CommandDefinition(
+            """
+            UPDATE modelwatch.notification
+               SET state = 'pending', detail = NULL, finished_at = NULL, lease_owner = NULL, lease_expires_at = NULL
+             WHERE state IN ('failed', 'skipped')
+               AND (@alertId::bigint IS NULL OR alert_id = @alertId::bigint)
+               AND (@since::timestamptz IS NULL OR created_at >= @since::timestamptz)
+               AND (@target::text IS NULL OR target = @target::text)
+            """,
+            new { alertId, since, target },
+            commandTimeout: Seconds,
+            cancellationToken: cancellationToken));
+    }
+
     /// <summary>Silences notifications for a model (or one of its checks) until a time; runs go on.</summary>
     public async Task<long> SilenceAsync(string model, string? check, DateTimeOffset until, string reason, string actor, DateTimeOffset now, CancellationToken cancellationToken)
     {

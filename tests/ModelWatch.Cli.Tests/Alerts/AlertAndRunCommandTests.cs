@@ -126,6 +126,28 @@ public sealed class AlertAndRunCommandTests(PostgresDatabase database) : IClassF
     }
 
     [Fact]
+    public async Task Failed_notifications_of_an_alert_are_queued_again_on_request()
+    {
+        // The engineer's ack queues one notification for the model's target; pretend the target refused it.
+        Assert.Equal(0, (await Cli("alerts", "ack", Id(), "--actor", "dana")).ExitCode);
+        await using NpgsqlConnection connection = await database.DataSource.OpenConnectionAsync();
+        await connection.ExecuteAsync("UPDATE modelwatch.notification SET state = 'failed', detail = 'HTTP 503', finished_at = now() WHERE alert_id = @id", new { id = _alertId });
+
+        CliRun neither = await Cli("alerts", "resend");
+        CliRun otherTarget = await Cli("alerts", "resend", Id(), "--target", "someone-else");
+        CliRun resend = await Cli("alerts", "resend", Id());
+        CliRun unknown = await Cli("alerts", "resend", "987654321");
+
+        Assert.Equal(ExitCodes.Usage, neither.ExitCode);
+        Assert.Contains("0 notification(s) queued again", otherTarget.Output, StringComparison.Ordinal);
+        Assert.Equal(0, resend.ExitCode);
+        Assert.Contains("1 notification(s) queued again", resend.Output, StringComparison.Ordinal);
+        Assert.Equal(ExitCodes.RuntimeError, unknown.ExitCode);
+        var row = await connection.QuerySingleAsync<(string State, string? Detail)>("SELECT state, detail FROM modelwatch.notification WHERE alert_id = @id", new { id = _alertId });
+        Assert.Equal(("pending", null), row);
+    }
+
+    [Fact]
     public async Task An_unknown_alert_is_a_runtime_error()
     {
         CliRun run = await Cli("alerts", "show", "987654321");
