@@ -81,8 +81,7 @@ public static class ResidualsCheck
 
         IReadOnlyList<double> reference = input.Baseline.ResidualSample;
         double[] now = input.Window.ResidualSample;
-        StatisticalTest test = BrownForsythe.TwoSample(reference, now);
-        double ratio = BrownForsythe.SpreadRatio(reference, now);
+        (StatisticalTest test, double ratio) = BrownForsythe.Compare(reference, now);
 
         // The floor is on the variance scale (methods.md §3.5.3), so the spread ratio is squared.
         bool practical = ratio * ratio < input.Thresholds.SpreadRatioLow || ratio * ratio > input.Thresholds.SpreadRatioHigh;

@@ -46,21 +46,20 @@ internal static class DesignRow
     }
 
     /// <summary>
-    /// The upper triangle of <paramref name="r"/> packed column by column (column i: <c>r[0..i−1, i]</c>, then
-    /// <c>r[i, i]</c>), the layout <see cref="Leverage(ReadOnlySpan{double}, ReadOnlySpan{double}, Span{double})"/> reads
+    /// The leading p×p upper triangle (R) of a factor packed column by column (column i: <c>R[0..i−1, i]</c>, then
+    /// <c>R[i, i]</c>), the layout <see cref="Leverage(ReadOnlySpan{double}, ReadOnlySpan{double}, Span{double})"/> reads
     /// in order: a rectangular array's bounds checks cost more than the arithmetic at one leverage per row read.
     /// </summary>
-    public static double[] PackUpperColumns(double[,] r)
+    public static double[] PackUpperColumns(AugmentedFactor factor, int p)
     {
-        ArgumentNullException.ThrowIfNull(r);
-        int p = r.GetLength(0);
+        ArgumentNullException.ThrowIfNull(factor);
         var packed = new double[p * (p + 1) / 2];
         int k = 0;
         for (int i = 0; i < p; i++)
         {
             for (int j = 0; j <= i; j++)
             {
-                packed[k++] = r[j, i];
+                packed[k++] = factor[j, i];
             }
         }
 

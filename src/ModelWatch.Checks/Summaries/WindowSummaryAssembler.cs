@@ -21,13 +21,14 @@ internal static class WindowSummaryAssembler
         double[] b0 = builder.DeployedCoefficients;
         double[]? bHat = fit is { IsFullRank: true } ? fit.Coefficients.Select(c => c.Estimate!.Value).ToArray() : null;
         var x = new double[p];
+        var work = new double[p];
         var standardized = new double[rows.Count];
         var refit = bHat is null ? [] : new double[rows.Count];
         for (int i = 0; i < rows.Count; i++)
         {
             DesignRow.Fill(layout, rows[i], x);
             double e = rows[i][q] - DesignRow.Dot(x, b0);
-            double h = builder.ReferenceR is { } r ? DesignRow.Leverage(r, x) : 0.0;
+            double h = builder.ReferencePackedR is { } r ? DesignRow.Leverage(r, x, work) : 0.0;
             standardized[i] = e / (s * Math.Sqrt(1.0 + h));
             if (bHat is not null)
             {
@@ -65,7 +66,7 @@ internal static class WindowSummaryAssembler
             Autocorrelations = maxLag >= 1 ? lags.Autocorrelations(maxLag) : [],
             DurbinWatson = lags.DurbinWatson(),
             FeatureBinCounts = builder.BinCounts.Select(c => (long[])c.Clone()).ToArray(),
-            LeverageComputed = builder.ReferenceR is not null,
+            LeverageComputed = builder.ReferencePackedR is not null,
             LeverageExceedanceCount = exceed,
             LeverageAboveReferenceMaximumCount = aboveMax,
             MaximumLeverage = maxLeverage,

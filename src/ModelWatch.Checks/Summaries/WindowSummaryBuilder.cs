@@ -17,7 +17,6 @@ public sealed class WindowSummaryBuilder
     private readonly RowReservoir _reservoir;
     private readonly LagSums _lags;
     private readonly double[] _b0;
-    private readonly double[,]? _rRef;
     private readonly double[]? _rPacked;
     private readonly long[][] _binCounts;
     private readonly double[] _x;
@@ -58,17 +57,7 @@ public sealed class WindowSummaryBuilder
         AugmentedFactor? reference = baseline.ToFactor();
         if (reference is not null && baseline.LeverageThreshold is not null)
         {
-            int p = layout.ParameterCount;
-            _rRef = new double[p, p];
-            for (int i = 0; i < p; i++)
-            {
-                for (int j = i; j < p; j++)
-                {
-                    _rRef[i, j] = reference[i, j];
-                }
-            }
-
-            _rPacked = DesignRow.PackUpperColumns(_rRef);
+            _rPacked = DesignRow.PackUpperColumns(reference, layout.ParameterCount);
         }
 
         _binCounts = baseline.FeatureBins.Select(b => new long[b.Proportions.Length]).ToArray();
@@ -217,7 +206,7 @@ public sealed class WindowSummaryBuilder
 
     internal double[] DeployedCoefficients => _b0;
 
-    internal double[,]? ReferenceR => _rRef;
+    internal double[]? ReferencePackedR => _rPacked;
 
     internal long[][] BinCounts => _binCounts;
 

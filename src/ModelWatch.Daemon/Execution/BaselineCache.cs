@@ -34,7 +34,7 @@ public sealed class BaselineCache
     }
 
     /// <summary>Estimated bytes held now.</summary>
-    public long EstimatedBytes
+    internal long EstimatedBytes
     {
         get
         {
@@ -46,7 +46,7 @@ public sealed class BaselineCache
     }
 
     /// <summary>Models whose baseline is held now.</summary>
-    public int Count
+    internal int Count
     {
         get
         {

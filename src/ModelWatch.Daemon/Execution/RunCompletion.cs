@@ -76,7 +76,7 @@ public sealed partial class RunCompletion(
         {
             if (recorded.Transitions.Count > 0)
             {
-                _openAlerts[outcome.ModelKey] = await OpenAlertsAsync(outcome.ModelKey, cancellationToken);
+                _openAlerts[outcome.ModelKey] = (await CountOpenAlertsAsync(outcome.ModelKey, cancellationToken)).GetValueOrDefault(outcome.ModelKey);
             }
             else if (now.UtcTicks - Interlocked.Read(ref _countedAtTicks) > RecountInterval.Ticks)
             {
@@ -101,19 +101,7 @@ public sealed partial class RunCompletion(
 
         try
         {
-            await using NpgsqlConnection connection = await state.OpenConnectionAsync(cancellationToken);
-            var rows = await connection.QueryAsync<(string Model, string Severity, int Count)>(new CommandDefinition(
-                "SELECT model_key, severity, count(*)::int FROM modelwatch.alert WHERE state <> 'resolved' GROUP BY model_key, severity",
-                commandTimeout: 30,
-                cancellationToken: cancellationToken));
-            var counts = new System.Collections.Concurrent.ConcurrentDictionary<string, (int Warnings, int Criticals)>(StringComparer.Ordinal);
-            foreach ((string model, string severity, int count) in rows)
-            {
-                (int warnings, int criticals) = counts.GetValueOrDefault(model);
-                counts[model] = severity == "critical" ? (warnings, criticals + count) : (warnings + count, criticals);
-            }
-
-            _openAlerts = counts;
+            _openAlerts = new(await CountOpenAlertsAsync(null, cancellationToken), StringComparer.Ordinal);
             Interlocked.Exchange(ref _countedAtTicks, now.UtcTicks);
         }
         finally
@@ -122,16 +110,27 @@ public sealed partial class RunCompletion(
         }
     }
 
-    private async Task<(int Warnings, int Criticals)> OpenAlertsAsync(string model, CancellationToken cancellationToken)
+    /// <summary>Unresolved alerts by model and severity, of one model or (null) of every model.</summary>
+    private async Task<Dictionary<string, (int Warnings, int Criticals)>> CountOpenAlertsAsync(string? model, CancellationToken cancellationToken)
     {
         await using NpgsqlConnection connection = await state.OpenConnectionAsync(cancellationToken);
-        var counts = await connection.QueryAsync<(string Severity, int Count)>(new CommandDefinition(
-            "SELECT severity, count(*)::int FROM modelwatch.alert WHERE model_key = @model AND state <> 'resolved' GROUP BY severity",
+        var rows = await connection.QueryAsync<(string Model, string Severity, int Count)>(new CommandDefinition(
+            """
+            SELECT model_key, severity, count(*)::int FROM modelwatch.alert
+             WHERE state <> 'resolved' AND (@model::text IS NULL OR model_key = @model::text)
+             GROUP BY model_key, severity
+            """,
             new { model },
             commandTimeout: 30,
             cancellationToken: cancellationToken));
-        var bySeverity = counts.ToDictionary(c => c.Severity, c => c.Count, StringComparer.Ordinal);
-        return (bySeverity.GetValueOrDefault("warning"), bySeverity.GetValueOrDefault("critical"));
+        var counts = new Dictionary<string, (int Warnings, int Criticals)>(StringComparer.Ordinal);
+        foreach ((string key, string severity, int count) in rows)
+        {
+            (int warnings, int criticals) = counts.GetValueOrDefault(key);
+            counts[key] = severity == "critical" ? (warnings, criticals + count) : (warnings + count, criticals);
+        }
+
+        return counts;
     }
 
     [LoggerMessage(EventId = 1301, Level = LogLevel.Warning, Message = "Model {Model}: lease lost before slot {Slot:O} was recorded; another replica owns it now, nothing was written")]

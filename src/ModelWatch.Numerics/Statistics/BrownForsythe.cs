@@ -8,7 +8,13 @@ namespace ModelWatch.Numerics.Statistics;
 public static class BrownForsythe
 {
     /// <summary>Tests whether two samples have the same spread.</summary>
-    public static StatisticalTest TwoSample(IReadOnlyList<double> first, IReadOnlyList<double> second)
+    public static StatisticalTest TwoSample(IReadOnlyList<double> first, IReadOnlyList<double> second) => Compare(first, second).Test;
+
+    /// <summary>
+    /// The test and the spread ratio (see <see cref="SpreadRatio"/>) together, each sample's median and deviations
+    /// computed once for both.
+    /// </summary>
+    public static (StatisticalTest Test, double SpreadRatio) Compare(IReadOnlyList<double> first, IReadOnlyList<double> second)
     {
         ArgumentNullException.ThrowIfNull(first);
         ArgumentNullException.ThrowIfNull(second);
@@ -28,7 +34,7 @@ public static class BrownForsythe
         double within = z1.Sum(v => (v - m1) * (v - m1)) + z2.Sum(v => (v - m2) * (v - m2));
         double df2 = n1 + n2 - 2.0;
         double f = within > 0 ? between / (within / df2) : double.NaN;
-        return new StatisticalTest(f, StandardDistributions.FisherUpper(f, 1.0, df2), 1.0, df2);
+        return (new StatisticalTest(f, StandardDistributions.FisherUpper(f, 1.0, df2), 1.0, df2), m2 / m1);
     }
 
     /// <summary>Ratio of mean absolute deviations from the median, second over first (an effect size for spread).</summary>
