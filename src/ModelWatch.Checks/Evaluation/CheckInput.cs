@@ -4,7 +4,7 @@ using ModelWatch.Checks.Summaries;
 
 namespace ModelWatch.Checks.Evaluation;
 
-/// <summary>Everything a check reads: the baseline, the window's summary and bounds, the check's persisted state and the model's thresholds.</summary>
+/// <summary>Everything a check reads: the baseline, the window's summary and bounds, the check's persisted state and the model's settings.</summary>
 public sealed record CheckInput
 {
     /// <summary>The baseline.</summary>
@@ -19,22 +19,22 @@ public sealed record CheckInput
     /// <summary>End of the window (exclusive).</summary>
     public required DateTimeOffset WindowEnd { get; init; }
 
-    /// <summary>This check's state from the previous run; null (or another baseline's) starts afresh.</summary>
+    /// <summary>This check's state from the previous run; null (or another baseline's, or an older shape) starts afresh.</summary>
     public CheckState? State { get; init; }
 
-    /// <summary>The model's thresholds.</summary>
+    /// <summary>The model's settings.</summary>
     public CheckThresholds Thresholds { get; init; } = new();
 
-    /// <summary>The state to continue from: the given one when it belongs to this baseline, else a fresh one.</summary>
-    internal CheckState CurrentState =>
-        State is not null && State.BaselineFingerprint == Baseline.Fingerprint ? State : CheckState.For(Baseline.Fingerprint);
-
-    /// <summary>True when this window does not overlap the last one the fixed-sample tests used.</summary>
-    internal bool FixedSampleDue => CurrentState.LastTestedWindowEnd is not { } last || WindowStart >= last;
-
-    /// <summary>The budgeted α of each fixed-sample test.</summary>
-    internal double Alpha => FalseAlarmBudget.FixedSampleAlpha(Thresholds);
+    /// <summary>The state to continue from: the given one when it belongs to this baseline and shape, else a fresh one.</summary>
+    public CheckState CurrentState =>
+        State is { SchemaVersion: CheckState.CurrentSchemaVersion } s && s.BaselineFingerprint == Baseline.Fingerprint ? s : CheckState.For(Baseline.Fingerprint);
 
     /// <summary>Usable rows the regression tests need.</summary>
-    internal int MinimumRows => Thresholds.MinimumRows ?? Math.Max(30, 10 * Baseline.ToLayout().ParameterCount);
+    public int MinimumRows => Thresholds.MinimumRows ?? Math.Max(30, 10 * Baseline.ToLayout().ParameterCount);
+
+    /// <summary>The value of one of the check's settings.</summary>
+    public double Setting(CheckSetting setting) => Thresholds.Value(setting);
+
+    /// <summary>α of one of <paramref name="tests"/> per-run tests sharing a channel.</summary>
+    public double RunAlpha(int tests = 1) => FalseAlarmBudget.RunAlpha(Thresholds, tests);
 }

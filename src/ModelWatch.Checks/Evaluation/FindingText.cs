@@ -49,14 +49,6 @@ internal static class FindingText
         return p < warningAlpha || p < alpha ? Severity.Warning : Severity.Ok;
     }
 
-    /// <summary>The result of a fixed-sample check whose window overlaps the last tested one: skipped, state unchanged.</summary>
-    public static CheckResult NotDue(string check, CheckState state, string statistic, string tests) => new()
-    {
-        Check = check,
-        State = state,
-        Findings = [Skip(check, statistic, SkipReasons.NotDue, $"window overlaps the last tested window; {tests} on the next non-overlapping window")],
-    };
-
     public static Finding Skip(string check, string statistic, string reason, string explanation, string? subject = null) => new()
     {
         Check = check,

@@ -6,9 +6,9 @@ using static ModelWatch.Checks.Evaluation.FindingText;
 namespace ModelWatch.Checks.Evaluation;
 
 /// <summary>
-/// Runs every check for one model and window. Pure: the same baseline, summary, states and thresholds give the
-/// same findings and new states. When the data check finds too few rows, every other check is <c>skipped</c>
-/// with <c>insufficient_data</c> and keeps its state.
+/// Runs every registered check (<see cref="CheckRegistry"/>) for one model and window. Pure: the same baseline,
+/// summary, states and settings give the same findings and new states. When the data check finds too few rows, every
+/// other check is <c>skipped</c> with <c>insufficient_data</c> and keeps its state.
 /// </summary>
 public static class ModelChecks
 {
@@ -28,44 +28,41 @@ public static class ModelChecks
             throw new ArgumentException("The window ends before it starts.", nameof(windowEnd));
         }
 
-        CheckInput InputFor(string check) => new()
+        thresholds ??= new CheckThresholds();
+        var results = new List<CheckResult>();
+        bool insufficient = false;
+        foreach (IModelCheck check in CheckRegistry.All)
         {
-            Baseline = baseline,
-            Window = window,
-            WindowStart = windowStart,
-            WindowEnd = windowEnd,
-            State = states is not null && states.TryGetValue(check, out CheckState? s) ? s : null,
-            Thresholds = thresholds ?? new CheckThresholds(),
-        };
-
-        var results = new List<CheckResult> { DataCheck.Run(InputFor(CheckNames.Data)) };
-        CheckResult data = results[0];
-        foreach (string check in CheckNames.All.Where(c => c != CheckNames.Data))
-        {
-            CheckInput input = InputFor(check);
-            if (data.Skipped)
+            var input = new CheckInput
             {
-                results.Add(new CheckResult
+                Baseline = baseline,
+                Window = window,
+                WindowStart = windowStart,
+                WindowEnd = windowEnd,
+                State = states is not null && states.TryGetValue(check.Name, out CheckState? s) ? s : null,
+                Thresholds = thresholds,
+            };
+            CheckResult result;
+            if (insufficient)
+            {
+                result = new CheckResult
                 {
-                    Check = check,
+                    Check = check.Name,
                     State = input.CurrentState,
                     Skipped = true,
                     SkipReason = SkipReasons.InsufficientData,
-                    Findings = [Skip(check, "all", SkipReasons.InsufficientData, Fmt($"{window.RowsAccepted} usable rows, below the minimum of {input.MinimumRows}"))],
-                });
-                continue;
+                    Findings = [Skip(check.Name, "all", SkipReasons.InsufficientData, Fmt($"{window.RowsAccepted} usable rows, below the minimum of {input.MinimumRows}"))],
+                };
+            }
+            else
+            {
+                result = check.Run(input);
+                result = result with { State = result.State with { Runs = result.State.Runs + 1 } };
             }
 
-            results.Add(check switch
-            {
-                CheckNames.Serving => ServingCheck.Run(input),
-                CheckNames.Coefficients => CoefficientsCheck.Run(input),
-                CheckNames.Collinearity => CollinearityCheck.Run(input),
-                CheckNames.Residuals => ResidualsCheck.Run(input),
-                CheckNames.Error => ErrorCheck.Run(input),
-                CheckNames.Features => FeaturesCheck.Run(input),
-                _ => throw new InvalidOperationException("Unknown check " + check),
-            });
+            // Every run moves the window on, evaluated or not: rows before this end are not new to the next run.
+            results.Add(result with { State = result.State with { LastRunEnd = windowEnd } });
+            insufficient |= check.Name == CheckNames.Data && result.Skipped;
         }
 
         return results;

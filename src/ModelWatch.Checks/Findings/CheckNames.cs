@@ -1,21 +1,23 @@
+using ModelWatch.Checks.Evaluation;
+
 namespace ModelWatch.Checks.Findings;
 
 /// <summary>The check names, exactly as stored and reported.</summary>
 public static class CheckNames
 {
-    /// <summary>Coefficient drift (methods.md §2).</summary>
+    /// <summary>Coefficient drift: the refit and the monitors of the coefficients against the deployed ones.</summary>
     public const string Coefficients = "coefficients";
 
-    /// <summary>Collinearity growth (methods.md §4).</summary>
+    /// <summary>Collinearity growth: variance inflation, condition number and near-dependencies.</summary>
     public const string Collinearity = "collinearity";
 
-    /// <summary>Residual shift (methods.md §5) and the sequential CUSUM (§3.2).</summary>
+    /// <summary>Residual shift: bias, spread, distribution, heteroscedasticity, autocorrelation and their CUSUMs.</summary>
     public const string Residuals = "residuals";
 
-    /// <summary>Prediction error of the deployed coefficients and its decomposition (methods.md §6).</summary>
+    /// <summary>Prediction error of the deployed coefficients and its decomposition.</summary>
     public const string Error = "error";
 
-    /// <summary>Feature drift and extrapolation (methods.md §7).</summary>
+    /// <summary>Feature drift and extrapolation.</summary>
     public const string Features = "features";
 
     /// <summary>Data health: row counts, rejected rows, constant features, quiet sources.</summary>
@@ -24,6 +26,6 @@ public static class CheckNames
     /// <summary>Served predictions against the deployed coefficients.</summary>
     public const string Serving = "serving";
 
-    /// <summary>All check names, in the order a run evaluates them.</summary>
-    public static readonly IReadOnlyList<string> All = [Data, Serving, Coefficients, Collinearity, Residuals, Error, Features];
+    /// <summary>All check names, in the order a run evaluates them (the order of <see cref="CheckRegistry.All"/>).</summary>
+    public static IReadOnlyList<string> All => CheckRegistry.Names;
 }

@@ -1,56 +1,47 @@
+using System.Text.Json;
+using System.Text.Json.Serialization;
+
 namespace ModelWatch.Checks.Findings;
 
 /// <summary>
-/// The state one check carries from run to run for one model: a plain document the store persists. It is
-/// bound to a baseline by fingerprint; a new baseline starts from a fresh state.
+/// The state one check carries from run to run for one model: a plain document the store persists. Its common part
+/// (baseline, runs, the end of the last window) belongs to the framework; <see cref="Data"/> is the check's own
+/// document, which only that check reads. It is bound to a baseline by fingerprint and to this shape by
+/// <see cref="SchemaVersion"/>: a new baseline, or a state written by an older version, starts afresh.
 /// </summary>
 public sealed record CheckState
 {
+    /// <summary>The shape this version writes. Version 1 (named fields per statistic) is read as a fresh state.</summary>
+    public const int CurrentSchemaVersion = 2;
+
+    private static readonly JsonSerializerOptions DataOptions = new(JsonSerializerDefaults.Web)
+    {
+        DefaultIgnoreCondition = JsonIgnoreCondition.WhenWritingNull,
+    };
+
     /// <summary>Version of this document's shape.</summary>
-    public int SchemaVersion { get; init; } = 1;
+    public int SchemaVersion { get; init; } = CurrentSchemaVersion;
 
     /// <summary>Fingerprint of the baseline this state belongs to.</summary>
     public string? BaselineFingerprint { get; init; }
 
-    /// <summary>End of the last window the fixed-sample tests used; the next test needs a window starting at or after it.</summary>
-    public DateTimeOffset? LastTestedWindowEnd { get; init; }
+    /// <summary>Runs evaluated since the baseline (or since the state started afresh).</summary>
+    public long Runs { get; init; }
 
-    /// <summary>Upper one-sided Page CUSUM.</summary>
-    public double CusumUpper { get; init; }
-
-    /// <summary>Lower one-sided Page CUSUM.</summary>
-    public double CusumLower { get; init; }
-
-    /// <summary>Upper one-sided Page CUSUM of the per-run variance statistic.</summary>
-    public double VarianceCusumUpper { get; init; }
-
-    /// <summary>Lower one-sided Page CUSUM of the per-run variance statistic.</summary>
-    public double VarianceCusumLower { get; init; }
-
-    /// <summary>Variance CUSUM alarms since the baseline.</summary>
-    public int VarianceCusumAlarms { get; init; }
-
-    /// <summary>Runs the CUSUM has taken since the baseline (or since its last alarm).</summary>
-    public long CusumRuns { get; init; }
-
-    /// <summary>CUSUM alarms since the baseline.</summary>
-    public int CusumAlarms { get; init; }
-
-    /// <summary>
-    /// Factor T of the baseline's reference rows plus every new row consumed since (row-major rows): the fit each
-    /// run's new rows are predicted from, which makes successive CUSUM inputs independent under no change.
-    /// </summary>
-    public double[][]? SequentialFactor { get; init; }
-
-    /// <summary>Rows in <see cref="SequentialFactor"/>.</summary>
-    public long SequentialRowCount { get; init; }
-
-    /// <summary>End of the previous run's window (the CUSUM uses it to recognise rows it has already consumed).</summary>
+    /// <summary>End of the previous run's window (sequential statistics use it to recognise rows already consumed).</summary>
     public DateTimeOffset? LastRunEnd { get; init; }
 
-    /// <summary>Consecutive runs that read no rows (a quiet source).</summary>
-    public int ConsecutiveEmptyRuns { get; init; }
+    /// <summary>The check's own state document; null before its first run.</summary>
+    public JsonElement? Data { get; init; }
 
     /// <summary>A fresh state for a baseline.</summary>
     public static CheckState For(string baselineFingerprint) => new() { BaselineFingerprint = baselineFingerprint };
+
+    /// <summary>The check's document, or a new <typeparamref name="T"/> before the first run.</summary>
+    public T Read<T>()
+        where T : new() =>
+        Data is { ValueKind: JsonValueKind.Object } data ? data.Deserialize<T>(DataOptions) ?? new T() : new T();
+
+    /// <summary>This state with the check's document replaced.</summary>
+    public CheckState With<T>(T data) => this with { Data = JsonSerializer.SerializeToElement(data, DataOptions) };
 }

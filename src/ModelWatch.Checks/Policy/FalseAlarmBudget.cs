@@ -1,27 +1,34 @@
 using System.Collections.Concurrent;
+using ModelWatch.Checks.Evaluation;
 using ModelWatch.Numerics.Statistics;
 
 namespace ModelWatch.Checks.Policy;
 
 /// <summary>
-/// Spends a model's yearly false-alarm budget (methods.md §3.5.1): each of K channels gets F*/K false alarms per
-/// year. A fixed-sample test runs once per non-overlapping window, so its α is F*/(K·N_w) with N_w windows a year
-/// (Bonferroni over time: valid under any dependence). The CUSUM takes one step per run, so its in-control ARL
-/// is K·N_runs/F* runs, and h follows from the ARL (Brook–Evans Markov chain, methods.md §3.4).
+/// Spends a model's yearly false-alarm budget F* over K alarm channels, F*/K each, whatever the ratio of window to
+/// cadence:
+/// <list type="bullet">
+/// <item>a per-run test runs on every run's window, overlapping or not, at <c>α = F*/(K·N_runs)</c> with N_runs runs a
+/// year: Bonferroni over the runs of a model-year, valid under any dependence between overlapping windows;</item>
+/// <item>a CUSUM steps on the rows new since the previous run (independent increments), with h whose in-control ARL is
+/// <c>K·N_runs/F*</c> runs (Brook–Evans Markov chain);</item>
+/// <item>a structural-change monitor crosses its boundary with probability <c>F*/K</c> within an epoch of one year, and
+/// restarts when the epoch ends.</item>
+/// </list>
+/// Several tests sharing a channel split its share equally (Bonferroni).
 /// </summary>
 public static class FalseAlarmBudget
 {
     /// <summary>Hours in a mean Gregorian year.</summary>
     public const double HoursPerYear = 8765.82;
 
-    private static readonly ConcurrentDictionary<(double Arl, double K), double> Thresholds = new();
+    private static readonly ConcurrentDictionary<(double Arl, double K, bool OneSided), double> Thresholds = new();
 
-    /// <summary>Fixed-sample tests per year: one per window, at most one per run.</summary>
-    public static double TestsPerYear(CheckThresholds thresholds)
+    /// <summary>Channels the budget is split over: the override, else every registered check's.</summary>
+    public static int Channels(CheckThresholds thresholds)
     {
         ArgumentNullException.ThrowIfNull(thresholds);
-        double hours = Math.Max(thresholds.WindowLength.TotalHours, thresholds.Cadence.TotalHours);
-        return HoursPerYear / hours;
+        return thresholds.AlarmChannels ?? CheckRegistry.Channels.Count;
     }
 
     /// <summary>Runs per year.</summary>
@@ -31,22 +38,31 @@ public static class FalseAlarmBudget
         return HoursPerYear / thresholds.Cadence.TotalHours;
     }
 
-    /// <summary>α of each fixed-sample test.</summary>
-    public static double FixedSampleAlpha(CheckThresholds thresholds)
+    /// <summary>False critical alerts per year one channel may raise, F*/K.</summary>
+    public static double ChannelShare(CheckThresholds thresholds)
     {
         ArgumentNullException.ThrowIfNull(thresholds);
-        return thresholds.AlphaOverride ?? Math.Min(0.05, thresholds.FalseAlarmsPerYear / (thresholds.AlarmChannels * TestsPerYear(thresholds)));
+        return thresholds.FalseAlarmsPerYear / Channels(thresholds);
     }
 
-    /// <summary>In-control ARL (in runs) the CUSUM's share of the budget allows.</summary>
-    public static double CusumTargetArl(CheckThresholds thresholds)
+    /// <summary>α of one of <paramref name="tests"/> per-run tests sharing a channel, on every run.</summary>
+    public static double RunAlpha(CheckThresholds thresholds, int tests = 1)
     {
         ArgumentNullException.ThrowIfNull(thresholds);
-        return thresholds.AlarmChannels * RunsPerYear(thresholds) / thresholds.FalseAlarmsPerYear;
+        ArgumentOutOfRangeException.ThrowIfLessThan(tests, 1);
+        return thresholds.AlphaOverride ?? Math.Min(0.05, ChannelShare(thresholds) / (tests * RunsPerYear(thresholds)));
     }
 
-    /// <summary>The CUSUM threshold h: the override, or the one whose two-sided ARL0 is <see cref="CusumTargetArl"/>.</summary>
-    public static double CusumThreshold(CheckThresholds thresholds)
+    /// <summary>In-control ARL, in runs, of one of <paramref name="cusums"/> CUSUMs sharing a channel.</summary>
+    public static double CusumTargetArl(CheckThresholds thresholds, int cusums = 1)
+    {
+        ArgumentNullException.ThrowIfNull(thresholds);
+        ArgumentOutOfRangeException.ThrowIfLessThan(cusums, 1);
+        return cusums * RunsPerYear(thresholds) / ChannelShare(thresholds);
+    }
+
+    /// <summary>The threshold h of one of <paramref name="cusums"/> CUSUMs sharing a channel (the override, else solved from the ARL).</summary>
+    public static double CusumThreshold(CheckThresholds thresholds, int cusums = 1, bool oneSided = false)
     {
         ArgumentNullException.ThrowIfNull(thresholds);
         if (thresholds.CusumThreshold is { } h)
@@ -54,7 +70,23 @@ public static class FalseAlarmBudget
             return h;
         }
 
-        double target = Math.Round(CusumTargetArl(thresholds), 3);
-        return Thresholds.GetOrAdd((target, thresholds.CusumReference), key => PageCusum.ThresholdForArl(key.Arl, key.K));
+        double target = Math.Round(CusumTargetArl(thresholds, cusums), 3);
+        return Thresholds.GetOrAdd((target, thresholds.CusumReference, oneSided), key => PageCusum.ThresholdForArl(key.Arl, key.K, key.OneSided));
+    }
+
+    /// <summary>Runs in one epoch of the structural-change monitors.</summary>
+    public static int EpochRuns(CheckThresholds thresholds)
+    {
+        ArgumentNullException.ThrowIfNull(thresholds);
+        return Math.Max(1, (int)Math.Round(thresholds.MonitoringHorizonDays * 24.0 / thresholds.Cadence.TotalHours));
+    }
+
+    /// <summary>Size, over one epoch, of one of <paramref name="monitors"/> monitors sharing a channel.</summary>
+    public static double EpochAlpha(CheckThresholds thresholds, int monitors = 1)
+    {
+        ArgumentNullException.ThrowIfNull(thresholds);
+        ArgumentOutOfRangeException.ThrowIfLessThan(monitors, 1);
+        double years = thresholds.MonitoringHorizonDays * 24.0 / HoursPerYear;
+        return thresholds.AlphaOverride ?? Math.Min(0.5, ChannelShare(thresholds) * years / monitors);
     }
 }

@@ -97,6 +97,15 @@ public sealed class BaselineReference
     // Filled on first use; two threads racing compute equal arrays, so either may win.
     private double[]? _sortedResidualSample;
     private double[][]? _sortedFeatureSamples;
+    private readonly System.Collections.Concurrent.ConcurrentDictionary<string, Lazy<object>> _derived = new(StringComparer.Ordinal);
+
+    /// <summary>
+    /// A value derived from this baseline alone (a resampled null spread, say), computed once per key and kept with the
+    /// baseline: the daemon keeps baselines in memory across runs, and the value never changes with the window.
+    /// </summary>
+    internal T Derived<T>(string key, Func<BaselineReference, T> factory)
+        where T : class =>
+        (T)_derived.GetOrAdd(key, _ => new Lazy<object>(() => factory(this))).Value;
 
     /// <summary>
     /// Leverage <c>xᵀ(X_refᵀX_ref)⁻¹x</c> above which a window row counts as an extrapolation: the reference quantile of

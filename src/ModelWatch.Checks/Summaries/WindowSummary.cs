@@ -57,6 +57,12 @@ public sealed class WindowSummary
     /// <summary>Rows per baseline bin, per feature (empty when the baseline has no bins).</summary>
     public required IReadOnlyList<long[]> FeatureBinCounts { get; init; }
 
+    /// <summary>Rows per baseline bin, per feature, of the rows new since the previous run.</summary>
+    public IReadOnlyList<long[]> NewRowsFeatureBinCounts { get; init; } = [];
+
+    /// <summary>Rows new since the previous run whose leverage exceeds the baseline's threshold.</summary>
+    public long NewRowsLeverageExceedanceCount { get; init; }
+
     /// <summary>Whether leverages against the baseline factor were computed.</summary>
     public required bool LeverageComputed { get; init; }
 

@@ -66,6 +66,8 @@ internal static class WindowSummaryAssembler
             Autocorrelations = maxLag >= 1 ? lags.Autocorrelations(maxLag) : [],
             DurbinWatson = lags.DurbinWatson(),
             FeatureBinCounts = builder.BinCounts.Select(c => (long[])c.Clone()).ToArray(),
+            NewRowsFeatureBinCounts = builder.NewBinCounts.Select(c => (long[])c.Clone()).ToArray(),
+            NewRowsLeverageExceedanceCount = builder.NewLeverageExceedanceCount,
             LeverageComputed = builder.ReferencePackedR is not null,
             LeverageExceedanceCount = exceed,
             LeverageAboveReferenceMaximumCount = aboveMax,

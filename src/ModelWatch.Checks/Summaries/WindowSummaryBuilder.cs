@@ -19,6 +19,7 @@ public sealed class WindowSummaryBuilder
     private readonly double[] _b0;
     private readonly double[]? _rPacked;
     private readonly long[][] _binCounts;
+    private readonly long[][] _newBinCounts;
     private readonly double[] _x;
     private readonly double[] _work;
     private readonly double[] _row;
@@ -28,6 +29,7 @@ public sealed class WindowSummaryBuilder
     private double _outcomeDeviation;
     private long _leverageExceed;
     private long _leverageAboveMax;
+    private long _newLeverageExceed;
     private double _maxLeverage = double.NaN;
     private long _servedCount;
     private long _servedMismatch;
@@ -61,6 +63,7 @@ public sealed class WindowSummaryBuilder
         }
 
         _binCounts = baseline.FeatureBins.Select(b => new long[b.Proportions.Length]).ToArray();
+        _newBinCounts = baseline.FeatureBins.Select(b => new long[b.Proportions.Length]).ToArray();
         _x = new double[layout.ParameterCount];
         _work = new double[layout.ParameterCount];
         _row = new double[layout.Features.Count + 1];
@@ -107,14 +110,21 @@ public sealed class WindowSummaryBuilder
         if (_rPacked is not null)
         {
             double h = DesignRow.Leverage(_rPacked, _x, _work);
-            _leverageExceed += h > _baseline.LeverageThreshold!.Value ? 1 : 0;
+            long exceeds = h > _baseline.LeverageThreshold!.Value ? 1 : 0;
+            _leverageExceed += exceeds;
+            _newLeverageExceed += newSinceLastRun ? exceeds : 0;
             _leverageAboveMax += h > _baseline.MaximumLeverage!.Value ? 1 : 0;
             _maxLeverage = double.IsNaN(_maxLeverage) ? h : Math.Max(_maxLeverage, h);
         }
 
         for (int j = 0; j < _binCounts.Length; j++)
         {
-            _binCounts[j][_baseline.FeatureBins[j].BinOf(features[j])]++;
+            int bin = _baseline.FeatureBins[j].BinOf(features[j]);
+            _binCounts[j][bin]++;
+            if (newSinceLastRun)
+            {
+                _newBinCounts[j][bin]++;
+            }
         }
 
         if (servedPrediction is { } served && double.IsFinite(served))
@@ -160,12 +170,14 @@ public sealed class WindowSummaryBuilder
         _outcomeDeviation += other._outcomeDeviation;
         _leverageExceed += other._leverageExceed;
         _leverageAboveMax += other._leverageAboveMax;
+        _newLeverageExceed += other._newLeverageExceed;
         _maxLeverage = double.IsNaN(_maxLeverage) ? other._maxLeverage : double.IsNaN(other._maxLeverage) ? _maxLeverage : Math.Max(_maxLeverage, other._maxLeverage);
         for (int j = 0; j < _binCounts.Length; j++)
         {
             for (int b = 0; b < _binCounts[j].Length; b++)
             {
                 _binCounts[j][b] += other._binCounts[j][b];
+                _newBinCounts[j][b] += other._newBinCounts[j][b];
             }
         }
 
@@ -209,6 +221,10 @@ public sealed class WindowSummaryBuilder
     internal double[]? ReferencePackedR => _rPacked;
 
     internal long[][] BinCounts => _binCounts;
+
+    internal long[][] NewBinCounts => _newBinCounts;
+
+    internal long NewLeverageExceedanceCount => _newLeverageExceed;
 
     internal (double SumSquares, double SumAbs, double OutcomeDeviation) Sums => (_sumSquares, _sumAbs, _outcomeDeviation);
 

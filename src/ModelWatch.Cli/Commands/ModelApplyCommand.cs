@@ -25,7 +25,7 @@ internal static class ModelApplyCommand
                 throw new FormatException($"--prune needs a folder of specs, and '{target}' is not a folder");
             }
 
-            IReadOnlyList<(ModelSpec Spec, string File)> specs = CheckSettingsValidation.Load(target);
+            IReadOnlyList<(ModelSpec Spec, string File)> specs = ModelSpecFiles.Load(target);
             var repository = new ModelRepository(databases.State, TimeProvider.System, StoreCommandRunner.CommandTimeout);
             IReadOnlyList<ApplyOutcome> outcomes = await repository.ApplyAsync([.. specs.Select(s => (s.Spec, (string?)s.File))], parse.GetValue(prune), ct);
             foreach (ApplyOutcome outcome in outcomes)

@@ -22,7 +22,7 @@ internal static class ModelValidateCommand
             ModelSpec spec;
             if (File.Exists(value))
             {
-                spec = CheckSettingsValidation.Load(value)[0].Spec;
+                spec = ModelSpecFiles.Load(value)[0].Spec;
             }
             else
             {

@@ -1,6 +1,7 @@
 using System.Globalization;
 using System.Net;
 using System.Text;
+using ModelWatch.Checks.Evaluation;
 using ModelWatch.Cli.Output;
 
 namespace ModelWatch.Cli.Reports;
@@ -105,12 +106,12 @@ internal static class EvidenceHtml
         }
 
         html.Append("<h2>Runbook</h2><dl class=\"runbook\">");
-        foreach (RunbookHint hint in RunbookHints.All.Where(h => checks.Contains(h.Check)))
+        foreach (RunbookEntry hint in RunbookHints.All.Where(h => checks.Contains(h.Check)))
         {
             html.Append("<dt>").Append(Enc(hint.Check)).Append("</dt>");
             html.Append("<dd><b>What it means.</b> ").Append(Enc(hint.Meaning)).Append("</dd>");
             html.Append("<dd><b>How to confirm.</b> ").Append(Enc(hint.Confirm)).Append("</dd>");
-            html.Append("<dd><b>What to do.</b> ").Append(Enc(hint.Action)).Append("</dd>");
+            html.Append("<dd><b>What to do.</b> ").Append(Enc(hint.Act)).Append("</dd>");
         }
 
         html.Append("</dl>");

@@ -130,7 +130,7 @@ internal static class EvidenceText
                 output.WriteLine($"Runbook, {hint.Check}:");
                 output.WriteLine($"  What it means: {hint.Meaning}");
                 output.WriteLine($"  How to confirm: {hint.Confirm}");
-                output.WriteLine($"  What to do: {hint.Action}");
+                output.WriteLine($"  What to do: {hint.Act}");
             }
         }
     }

@@ -10,7 +10,9 @@ namespace ModelWatch.Numerics.Monitoring;
 /// time scale (Chu, Hornik &amp; Kuan 1995; Leisch, Hornik &amp; Kuan 2000). Simulated on the design's own evaluation
 /// times, so a monitor looked at once per run gets critical values for exactly that — lower than the continuous
 /// tables, which assume a look at every observation — and for any window, horizon and size, beyond the range
-/// strucchange tabulates. The critical value for size α is the (1 − α) quantile of S.
+/// strucchange tabulates. The critical value for size α is the (1 − α) quantile of S. S is kept divided by Z's
+/// standard deviation after the history, <c>√(h(1 + h))</c>, so that a monitor whose window holds a varying number
+/// of rows can scale the boundary to each run's own h.
 /// </summary>
 public sealed class MovingWindowNull
 {
@@ -102,12 +104,25 @@ public sealed class MovingWindowNull
             }
         });
 
+        // Kept per unit of Z's spread after the history, √(h(1 + h)).
+        double scale = Math.Sqrt(h * (1.0 + h));
+        for (int i = 0; i < statistics.Length; i++)
+        {
+            statistics[i] /= scale;
+        }
+
         Array.Sort(statistics);
         return new MovingWindowNull(design, statistics);
     }
 
-    /// <summary>The critical value c of size α: the (1 − α) quantile of the crossing statistic.</summary>
-    public double CriticalValue(double alpha)
+    /// <summary>Z's standard deviation after the history, <c>√(h(1 + h))</c>, for a window of h history lengths.</summary>
+    public static double Spread(double window) => Math.Sqrt(window * (1.0 + window));
+
+    /// <summary>The critical value c of size α, in the process's units for the design's window: the (1 − α) quantile of S.</summary>
+    public double CriticalValue(double alpha) => StandardizedCriticalValue(alpha) * Spread(Design.Window);
+
+    /// <summary>The critical value of size α per unit of <see cref="Spread"/>.</summary>
+    public double StandardizedCriticalValue(double alpha)
     {
         if (!(alpha > 0.0 && alpha < 1.0))
         {
@@ -119,19 +134,20 @@ public sealed class MovingWindowNull
     }
 
     /// <summary>
-    /// Monte Carlo p-value <c>(1 + #{S ≥ s})/(paths + 1)</c>: how often, with no change, the process reaches
-    /// <paramref name="statistic"/> times its unit boundary <c>√(2·log₊ x)</c> somewhere over the horizon.
+    /// Monte Carlo p-value <c>(1 + #{S ≥ s})/(paths + 1)</c> of a standardized statistic (the process over
+    /// <see cref="Spread"/> and over its unit boundary <c>√(2·log₊ x)</c>): how often, with no change, the process reaches it
+    /// somewhere over the horizon.
     /// </summary>
-    public double PValue(double statistic)
+    public double PValue(double standardizedStatistic)
     {
-        int index = Array.BinarySearch(_sorted, statistic);
+        int index = Array.BinarySearch(_sorted, standardizedStatistic);
         if (index < 0)
         {
             index = ~index;
         }
         else
         {
-            while (index > 0 && _sorted[index - 1] == statistic)
+            while (index > 0 && _sorted[index - 1] == standardizedStatistic)
             {
                 index--;
             }

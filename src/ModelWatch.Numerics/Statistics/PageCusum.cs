@@ -24,6 +24,13 @@ public static class PageCusum
         return upper > threshold || lower > threshold;
     }
 
+    /// <summary>Advances the upper one-sided sum alone (shifts that only go one way: a chi-square, an exceedance count).</summary>
+    public static bool StepUpper(ref double upper, double z, double reference, double threshold)
+    {
+        upper = Math.Max(0.0, upper + z - reference);
+        return upper > threshold;
+    }
+
     /// <summary>
     /// One-sided ARL from a zero start for observations N(μ, 1), by the Brook–Evans Markov chain with
     /// <paramref name="states"/> states of width <c>w = 2h/(2t − 1)</c>.
@@ -76,13 +83,17 @@ public static class PageCusum
         return Math.Abs(delta) < 1e-12 ? b * b : (Math.Exp(-2.0 * delta * b) + (2.0 * delta * b) - 1.0) / (2.0 * delta * delta);
     }
 
-    /// <summary>The two-sided threshold h whose in-control ARL is <paramref name="targetArl"/> (bisection on the Markov chain).</summary>
-    public static double ThresholdForArl(double targetArl, double reference = DefaultReference, int states = DefaultStates)
+    /// <summary>
+    /// The threshold h whose in-control ARL is <paramref name="targetArl"/>, two-sided or (<paramref name="oneSided"/>)
+    /// for the upper sum alone (bisection on the Markov chain).
+    /// </summary>
+    public static double ThresholdForArl(double targetArl, double reference = DefaultReference, bool oneSided = false, int states = DefaultStates)
     {
         ArgumentOutOfRangeException.ThrowIfLessThanOrEqual(targetArl, 1.0);
+        double Arl(double h) => oneSided ? OneSidedArlMarkov(h, reference, 0.0, states) : TwoSidedArlMarkov(h, reference, 0.0, states);
         double lo = 0.01;
         double hi = 1.0;
-        while (TwoSidedArlMarkov(hi, reference, 0.0, states) < targetArl)
+        while (Arl(hi) < targetArl)
         {
             lo = hi;
             hi *= 2.0;
@@ -91,7 +102,7 @@ public static class PageCusum
         for (int iteration = 0; iteration < 60 && hi - lo > 1e-6; iteration++)
         {
             double mid = 0.5 * (lo + hi);
-            if (TwoSidedArlMarkov(mid, reference, 0.0, states) < targetArl)
+            if (Arl(mid) < targetArl)
             {
                 lo = mid;
             }

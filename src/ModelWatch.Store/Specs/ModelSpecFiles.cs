@@ -7,7 +7,7 @@ namespace ModelWatch.Store.Specs;
 public static class ModelSpecFiles
 {
     /// <summary>Loads and validates; throws <see cref="ModelSpecException"/> listing every problem when any spec is invalid.</summary>
-    public static IReadOnlyList<(ModelSpec Spec, string File)> Load(string path, Func<string, IReadOnlyDictionary<string, string>, IEnumerable<string>>? checkValidator = null)
+    public static IReadOnlyList<(ModelSpec Spec, string File)> Load(string path)
     {
         ArgumentException.ThrowIfNullOrWhiteSpace(path);
         string[] files;
@@ -47,7 +47,7 @@ public static class ModelSpecFiles
                 continue;
             }
 
-            if (ModelSpecValidator.FromYaml(shown, text, problems, checkValidator) is not { } spec)
+            if (ModelSpecValidator.FromYaml(shown, text, problems) is not { } spec)
             {
                 continue;
             }

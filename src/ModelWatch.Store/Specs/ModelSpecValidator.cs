@@ -1,12 +1,14 @@
 using System.Text.Json;
 using System.Text.RegularExpressions;
+using ModelWatch.Checks.Evaluation;
 
 namespace ModelWatch.Store.Specs;
 
 /// <summary>
 /// Checks a spec against the documented schema and returns either a <see cref="ModelSpec"/> or every problem
-/// found, each with its file and field path. Check settings are passed to an optional validator supplied by
-/// the checks, since only they know their settings.
+/// found, each with its file and field path. The <c>checks:</c> section is read by the checks themselves
+/// (<see cref="CheckSettingsReader"/>): unknown checks, settings that are not the check's, and values that do not
+/// parse or lie out of range are problems like any other.
 /// </summary>
 public static partial class ModelSpecValidator
 {
@@ -14,7 +16,7 @@ public static partial class ModelSpecValidator
     public const int MaxParallelReads = 16;
 
     /// <summary>Validates YAML text read from <paramref name="file"/>.</summary>
-    public static ModelSpec? FromYaml(string file, string yaml, List<SpecProblem> problems, Func<string, IReadOnlyDictionary<string, string>, IEnumerable<string>>? checkValidator = null)
+    public static ModelSpec? FromYaml(string file, string yaml, List<SpecProblem> problems)
     {
         ArgumentNullException.ThrowIfNull(problems);
         int before = problems.Count;
@@ -24,22 +26,25 @@ public static partial class ModelSpecValidator
             return null;
         }
 
-        ModelSpec? spec = Validate(file, doc, problems, checkValidator);
+        ModelSpec? spec = Validate(file, doc, problems, validateChecks: true);
         return problems.Count == before ? spec : null;
     }
 
-    /// <summary>Reads a spec back from its stored JSON (written by <see cref="ModelSpec.ToJson"/>).</summary>
+    /// <summary>
+    /// Reads a spec back from its stored JSON (written by <see cref="ModelSpec.ToJson"/>). Its <c>checks:</c> section is
+    /// not judged again here: a setting an older version accepted still loads, and the run names it if it no longer reads.
+    /// </summary>
     public static ModelSpec FromStoredJson(string json)
     {
         ModelSpecDocument doc = JsonSerializer.Deserialize<ModelSpecDocument>(json, SpecJson.Options)
             ?? throw new InvalidOperationException("A stored spec is null.");
         var problems = new List<SpecProblem>();
-        return Validate("(stored spec)", doc, problems, null) is { } spec && problems.Count == 0
+        return Validate("(stored spec)", doc, problems, validateChecks: false) is { } spec && problems.Count == 0
             ? spec
             : throw new ModelSpecException(problems);
     }
 
-    private static ModelSpec? Validate(string file, ModelSpecDocument doc, List<SpecProblem> problems, Func<string, IReadOnlyDictionary<string, string>, IEnumerable<string>>? checkValidator)
+    private static ModelSpec? Validate(string file, ModelSpecDocument doc, List<SpecProblem> problems, bool validateChecks)
     {
         int before = problems.Count;
         var shapeProblems = problems.Where(p => p.File == file).Select(p => p.FieldPath).ToHashSet(StringComparer.Ordinal);
@@ -181,13 +186,9 @@ public static partial class ModelSpecValidator
         doc.Checks ??= new Dictionary<string, Dictionary<string, string>>(StringComparer.Ordinal);
         foreach ((string check, Dictionary<string, string> settings) in doc.Checks)
         {
-            if (!SourcePattern().IsMatch(check))
+            if (validateChecks)
             {
-                Fail($"checks.{check}", "is not a check name");
-            }
-            else if (checkValidator is not null)
-            {
-                foreach (string message in checkValidator(check, settings))
+                foreach (string message in CheckSettingsReader.Problems(check, settings))
                 {
                     Fail($"checks.{check}", message);
                 }

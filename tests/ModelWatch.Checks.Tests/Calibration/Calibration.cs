@@ -4,7 +4,7 @@ using ModelWatch.Checks.Findings;
 namespace ModelWatch.Checks.Tests.Calibration;
 
 /// <summary>
-/// Shared set-up of the calibration simulations (issue 4 §5): 5 features, a baseline of 2,000 rows and windows of
+/// Shared set-up of the per-run calibration simulations: 5 features, a baseline of 2,000 rows and windows of
 /// 500 rows; every trial draws its own baseline and windows from a seed derived from the trial number.
 /// </summary>
 internal static class Calibration

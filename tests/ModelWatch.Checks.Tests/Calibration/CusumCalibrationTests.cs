@@ -2,16 +2,17 @@ using System.Globalization;
 using ModelWatch.Checks.Evaluation;
 using ModelWatch.Checks.Findings;
 using ModelWatch.Checks.Policy;
+using ModelWatch.Checks.Residuals;
 using ModelWatch.Checks.Summaries;
-using ModelWatch.Checks.Tests.Support;
+using ModelWatch.Calibration;
 using Xunit.Abstractions;
 
 namespace ModelWatch.Checks.Tests.Calibration;
 
 /// <summary>
 /// In-control run lengths of the bias and variance CUSUMs end to end (window summaries of 500 rows, the persisted state carried
-/// between runs), with h derived from a budget whose target ARL0 is 167.68 runs: methods.md §3.2 gives h = 4 for
-/// that ARL [C: spc::xcusum.arl, two-sided, k = 0.5]. Seeds 1,000,003·2 + trial.
+/// between runs), with h derived from a budget whose target ARL0 is 167.68 runs, the two-sided ARL of h = 4, k = 0.5
+/// (spc::xcusum.arl; see PageCusumTests). Seeds 1,000,003·2 + trial.
 /// </summary>
 [Trait("Category", "Calibration")]
 public sealed class CusumCalibrationTests(ITestOutputHelper output)
@@ -33,7 +34,7 @@ public sealed class CusumCalibrationTests(ITestOutputHelper output)
         {
             var model = new SyntheticModel(Calibration.Seed(2, trial), Calibration.Features);
             BaselineReference baseline = model.Baseline(Calibration.BaselineRows, seed: trial);
-            CheckState state = CheckState.For(baseline.Fingerprint);
+            var state = new ResidualsState();
             int? biasRun = null;
             int? varianceRun = null;
             for (int run = 1; run <= 20 * TableArl && (biasRun is null || varianceRun is null); run++)
@@ -46,8 +47,8 @@ public sealed class CusumCalibrationTests(ITestOutputHelper output)
                 }
 
                 DateTimeOffset end = start.AddHours(run);
-                var input = new CheckInput { Baseline = baseline, Window = builder.Build(), WindowStart = end.AddHours(-1), WindowEnd = end, State = state, Thresholds = thresholds };
-                (IReadOnlyList<Finding> findings, state) = ResidualCusum.StepBoth(input, state);
+                var input = new CheckInput { Baseline = baseline, Window = builder.Build(), WindowStart = end.AddHours(-1), WindowEnd = end, Thresholds = thresholds };
+                (IReadOnlyList<Finding> findings, state) = ResidualCusums.Step(input, state);
                 windows++;
                 biasRun ??= findings[0].Severity == Severity.Critical ? run : null;
                 varianceRun ??= findings[1].Severity == Severity.Critical ? run : null;

@@ -1,9 +1,15 @@
 using System.Text.Json;
+using ModelWatch.Checks.Coefficients;
+using ModelWatch.Checks.Collinearity;
+using ModelWatch.Checks.Data;
 using ModelWatch.Checks.Evaluation;
 using ModelWatch.Checks.Findings;
-using ModelWatch.Checks.Policy;
+using ModelWatch.Checks.PredictionError;
+using ModelWatch.Checks.Residuals;
+using ModelWatch.Checks.Sequential;
+using ModelWatch.Checks.Serving;
 using ModelWatch.Checks.Summaries;
-using ModelWatch.Checks.Tests.Support;
+using ModelWatch.Calibration;
 using ModelWatch.Numerics.Regression;
 
 namespace ModelWatch.Checks.Tests.Evaluation;
@@ -39,7 +45,7 @@ public sealed class CheckBehaviourTests
         string json = JsonSerializer.Serialize(results);
         Assert.Contains("\"Severity\":\"ok\"", json, StringComparison.Ordinal);
         var states = results.ToDictionary(r => r.Check, r => JsonSerializer.Deserialize<CheckState>(JsonSerializer.Serialize(r.State))!);
-        Assert.Equal(2500, states[CheckNames.Residuals].SequentialRowCount);
+        Assert.Equal(2500, states[CheckNames.Residuals].Read<ResidualsState>().Running!.Count);
     }
 
     [Fact]
@@ -55,7 +61,7 @@ public sealed class CheckBehaviourTests
         };
         BaselineReference baseline = builder.Build(BaselineOrigin.Imported, imported);
         WindowSummary window = model.Window(baseline, 300);
-        CheckResult result = CoefficientsCheck.Run(new CheckInput { Baseline = baseline, Window = window, WindowStart = Start, WindowEnd = Start.AddDays(1) });
+        CheckResult result = CoefficientsCheck.Instance.Run(new CheckInput { Baseline = baseline, Window = window, WindowStart = Start, WindowEnd = Start.AddDays(1) });
         Finding wald = result.Findings.Single(f => f.Statistic == "wald");
         Assert.True(wald.Skipped);
         Assert.Equal(SkipReasons.BaselineIncomplete, wald.SkipReason);
@@ -90,17 +96,19 @@ public sealed class CheckBehaviourTests
     }
 
     [Fact]
-    public void Overlapping_windows_run_the_fixed_sample_tests_once()
+    public void Overlapping_windows_are_tested_on_every_run()
     {
         var model = new SyntheticModel(seed: 24, features: 2);
         BaselineReference baseline = model.Baseline(1000);
         var input = new CheckInput { Baseline = baseline, Window = model.Window(baseline, 300), WindowStart = Start, WindowEnd = Start.AddHours(24) };
-        CheckResult first = CoefficientsCheck.Run(input);
-        Assert.DoesNotContain(first.Findings, f => f.Skipped);
-        CheckResult second = CoefficientsCheck.Run(input with { State = first.State, WindowStart = Start.AddHours(1), WindowEnd = Start.AddHours(25) });
-        Assert.Equal(SkipReasons.NotDue, Assert.Single(second.Findings).SkipReason);
-        CheckResult third = CoefficientsCheck.Run(input with { State = first.State, WindowStart = Start.AddHours(24), WindowEnd = Start.AddHours(48) });
-        Assert.DoesNotContain(third.Findings, f => f.Skipped);
+        CheckResult first = CoefficientsCheck.Instance.Run(input);
+        CheckResult second = CoefficientsCheck.Instance.Run(input with { State = first.State, WindowStart = Start.AddHours(1), WindowEnd = Start.AddHours(25) });
+        foreach (CheckResult result in new[] { first, second })
+        {
+            Assert.False(result.Findings.Single(f => f.Statistic == "wald").Skipped);
+            Assert.Contains(result.Findings, f => f.Statistic == "moving_estimates" && !f.Skipped);
+            Assert.Contains(result.Findings, f => f.Statistic == "ols_mosum" && !f.Skipped);
+        }
     }
 
     [Fact]
@@ -109,12 +117,13 @@ public sealed class CheckBehaviourTests
         var model = new SyntheticModel(seed: 25, features: 2);
         BaselineReference first = model.Baseline(1000, seed: 1);
         BaselineReference second = model.Baseline(1000, seed: 2);
-        var stale = new CheckState { BaselineFingerprint = first.Fingerprint, CusumUpper = 7.0, SequentialRowCount = 99999 };
+        CheckState stale = CheckState.For(first.Fingerprint).With(new ResidualsState { Bias = new CusumSums { Upper = 7.0 } });
         var input = new CheckInput { Baseline = second, Window = model.Window(second, 200), WindowStart = Start, WindowEnd = Start.AddHours(1), State = stale };
-        CheckResult result = ResidualsCheck.Run(input);
+        CheckResult result = ResidualsCheck.Instance.Run(input);
         Assert.Equal(second.Fingerprint, result.State.BaselineFingerprint);
-        Assert.Equal(1200, result.State.SequentialRowCount);
-        Assert.True(result.State.CusumUpper < 7.0);
+        ResidualsState memory = result.State.Read<ResidualsState>();
+        Assert.Equal(1200, memory.Running!.Count);
+        Assert.True(memory.Bias.Upper < 7.0);
     }
 
     [Fact]
@@ -123,11 +132,12 @@ public sealed class CheckBehaviourTests
         var model = new SyntheticModel(seed: 33, features: 2);
         BaselineReference baseline = model.Baseline(1000);
         WindowSummary window = model.Window(baseline, 200);
-        var first = ResidualsCheck.Run(new CheckInput { Baseline = baseline, Window = window, WindowStart = Start, WindowEnd = Start.AddHours(24) });
-        var second = ResidualsCheck.Run(new CheckInput { Baseline = baseline, Window = window, WindowStart = Start.AddHours(1), WindowEnd = Start.AddHours(25), State = first.State });
+        IReadOnlyList<CheckResult> firstRun = ModelChecks.Run(baseline, window, Start, Start.AddHours(24), null);
+        CheckResult first = firstRun.Single(r => r.Check == CheckNames.Residuals);
+        CheckResult second = ModelChecks.Run(baseline, window, Start.AddHours(1), Start.AddHours(25), firstRun.ToDictionary(r => r.Check, r => r.State)).Single(r => r.Check == CheckNames.Residuals);
         Finding cusum = second.Findings.Single(f => f.Statistic == "cusum");
         Assert.Equal(SkipReasons.RowsNotMarked, cusum.SkipReason);
-        Assert.Equal(first.State.SequentialRowCount, second.State.SequentialRowCount);
+        Assert.Equal(first.State.Read<ResidualsState>().Running!.Count, second.State.Read<ResidualsState>().Running!.Count);
     }
 
     [Fact]
@@ -140,7 +150,7 @@ public sealed class CheckBehaviourTests
         var severities = new List<Severity>();
         for (int run = 0; run < 3; run++)
         {
-            CheckResult result = DataCheck.Run(new CheckInput { Baseline = baseline, Window = empty, WindowStart = Start, WindowEnd = Start.AddHours(1), State = state });
+            CheckResult result = DataCheck.Instance.Run(new CheckInput { Baseline = baseline, Window = empty, WindowStart = Start, WindowEnd = Start.AddHours(1), State = state });
             state = result.State;
             severities.Add(result.Findings.Single(f => f.Statistic == "quiet_source").Severity);
             Assert.True(result.Skipped);
@@ -163,7 +173,7 @@ public sealed class CheckBehaviourTests
             builder.AddRow(x, y, stale);
         }
 
-        CheckResult result = ServingCheck.Run(new CheckInput { Baseline = baseline, Window = builder.Build(), WindowStart = Start, WindowEnd = Start.AddHours(1) });
+        CheckResult result = ServingCheck.Instance.Run(new CheckInput { Baseline = baseline, Window = builder.Build(), WindowStart = Start, WindowEnd = Start.AddHours(1) });
         Finding f = Assert.Single(result.Findings);
         Assert.Equal(Severity.Critical, f.Severity);
         Assert.Contains("stale coefficient file", f.Explanation, StringComparison.Ordinal);
@@ -183,10 +193,10 @@ public sealed class CheckBehaviourTests
 
         WindowSummary window = builder.Build();
         var input = new CheckInput { Baseline = baseline, Window = window, WindowStart = Start, WindowEnd = Start.AddHours(1) };
-        Finding constant = DataCheck.Run(input).Findings.Single(f => f.Statistic == "constant_feature");
+        Finding constant = DataCheck.Instance.Run(input).Findings.Single(f => f.Statistic == "constant_feature");
         Assert.Equal("x2", constant.Subject);
         Assert.Equal(Severity.Critical, constant.Severity);
-        Finding rank = Assert.Single(CollinearityCheck.Run(input).Findings);
+        Finding rank = Assert.Single(CollinearityCheck.Instance.Run(input).Findings);
         Assert.Equal("x2", rank.Subject);
         Assert.Equal(Severity.Critical, rank.Severity);
         Assert.False(rank.RequiresPersistence);
@@ -208,7 +218,7 @@ public sealed class CheckBehaviourTests
         Finding rank = results.Single(r => r.Check == CheckNames.Collinearity).Findings.Single();
         Assert.Equal("x3", rank.Subject);
         Assert.Equal(Severity.Critical, rank.Severity);
-        Assert.Equal(SkipReasons.RankDeficient, results.Single(r => r.Check == CheckNames.Coefficients).Findings.Single().SkipReason);
+        Assert.Equal(SkipReasons.RankDeficient, results.Single(r => r.Check == CheckNames.Coefficients).Findings.Single(f => f.Statistic == "wald").SkipReason);
         Assert.NotNull(JsonSerializer.Serialize(results));
     }
 
@@ -227,7 +237,7 @@ public sealed class CheckBehaviourTests
             builder.AddRow(x, b0[0] + (b0[1] * x[0]) + (b0[2] * x[1]) + noise);
         }
 
-        CheckResult result = ResidualsCheck.Run(new CheckInput { Baseline = baseline, Window = builder.Build(), WindowStart = Start, WindowEnd = Start.AddHours(1) });
+        CheckResult result = ResidualsCheck.Instance.Run(new CheckInput { Baseline = baseline, Window = builder.Build(), WindowStart = Start, WindowEnd = Start.AddHours(1) });
         Finding dw = result.Findings.Single(f => f.Statistic == "durbin_watson");
         Assert.InRange(dw.Value!.Value, 0.0, 1.0);
         Assert.Equal(Severity.Warning, dw.Severity);

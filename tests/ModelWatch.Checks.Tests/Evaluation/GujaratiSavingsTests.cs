@@ -1,6 +1,9 @@
+using ModelWatch.Checks.Coefficients;
 using ModelWatch.Checks.Evaluation;
 using ModelWatch.Checks.Findings;
 using ModelWatch.Checks.Policy;
+using ModelWatch.Checks.PredictionError;
+using ModelWatch.Checks.Residuals;
 using ModelWatch.Checks.Summaries;
 using ModelWatch.Numerics.Regression;
 
@@ -45,7 +48,7 @@ public sealed class GujaratiSavingsTests
     [Fact]
     public void Chow_and_Wald_match_the_published_and_computed_values()
     {
-        CheckResult result = CoefficientsCheck.Run(Input());
+        CheckResult result = CoefficientsCheck.Instance.Run(Input());
 
         // Chow F(2,22) = 10.690059, p = 5.7076e-4 [C; published F = 10.69, L: Gujarati & Porter 5e §8.7].
         Finding chow = result.Findings.Single(f => f.Statistic == "chow");
@@ -57,13 +60,13 @@ public sealed class GujaratiSavingsTests
         Assert.Equal(31.26770, wald.Value!.Value, 5);
         Assert.Equal(1.623e-7, wald.Details["chi2_p_value"], 10);
         Assert.Equal(Severity.Critical, wald.Severity);
-        Assert.Contains(result.Findings, f => f.Subject == "income" && f.Explanation.StartsWith("coefficient of income moved from 0.0803", StringComparison.Ordinal));
+        Assert.Contains(result.Findings, f => f.Subject == "income" && f.Explanation.StartsWith("coefficient of income on the window's refit moved from 0.0803", StringComparison.Ordinal));
     }
 
     [Fact]
     public void Error_metrics_decomposition_and_predictive_test_match()
     {
-        CheckResult result = ErrorCheck.Run(Input());
+        CheckResult result = ErrorCheck.Instance.Run(Input());
         Finding f = Assert.Single(result.Findings);
 
         // methods.md §6.4 [C]: MSE_dep 13455.6676 = 714.6586 + 9117.4040 + 3623.6049; RMSE 115.99857; MAE 99.03827;
@@ -85,7 +88,7 @@ public sealed class GujaratiSavingsTests
     [Fact]
     public void Bias_t_includes_the_baseline_uncertainty()
     {
-        CheckResult result = ResidualsCheck.Run(Input());
+        CheckResult result = ResidualsCheck.Instance.Run(Input());
 
         // methods.md §5.1 [C]: ē0 = −95.48510, t = −4.46932, p = 0.00120 on 10 df.
         Finding bias = result.Findings.Single(f => f.Statistic == "bias_t");

@@ -1,3 +1,4 @@
+using ModelWatch.Checks.Collinearity;
 using ModelWatch.Checks.Evaluation;
 using ModelWatch.Checks.Findings;
 using ModelWatch.Checks.Policy;
@@ -73,7 +74,7 @@ public sealed class LongleyCollinearityTests
         };
 
         // 16 rows for 7 coefficients is below 10 per coefficient: VIFs are too noisy to compare, so the test skips.
-        CheckResult thin = CollinearityCheck.Run(input);
+        CheckResult thin = CollinearityCheck.Instance.Run(input);
         Assert.True(Assert.Single(thin.Findings).Skipped);
 
         // The same design repeated 5 times has identical VIFs and indices (both are scale-free in the row count).
@@ -86,7 +87,7 @@ public sealed class LongleyCollinearityTests
             }
         }
 
-        CheckResult result = CollinearityCheck.Run(input with { Window = repeated.Build() });
+        CheckResult result = CollinearityCheck.Instance.Run(input with { Window = repeated.Build() });
 
         // methods.md §4.1 [C; car::vif and statsmodels agree]: 135.532, 1788.513, 33.619, 3.589, 399.151, 758.981.
         var expected = new Dictionary<string, double> { ["GNPDEFL"] = 135.532, ["GNP"] = 1788.513, ["UNEMP"] = 33.619, ["ARMED"] = 3.589, ["POP"] = 399.151, ["YEAR"] = 758.981 };

@@ -1,3 +1,4 @@
+using ModelWatch.Checks.Evaluation;
 using ModelWatch.Checks.Findings;
 using ModelWatch.Checks.Policy;
 
@@ -114,14 +115,27 @@ public sealed class AlertPolicyTests
     }
 
     [Fact]
-    public void Budget_splits_one_false_alarm_a_year_over_the_channels()
+    public void Budget_splits_one_false_alarm_a_year_over_the_channels_and_the_runs()
     {
-        // methods.md §3.5.1 [D]: hourly tests with K = 10 give α ≈ 1.1e-5; daily windows give α ≈ 2.7e-4.
-        Assert.Equal(1.14e-5, FalseAlarmBudget.FixedSampleAlpha(new CheckThresholds { AlarmChannels = 10, WindowLength = TimeSpan.FromHours(1) }), 7);
-        Assert.Equal(2.74e-4, FalseAlarmBudget.FixedSampleAlpha(new CheckThresholds { AlarmChannels = 10 }), 6);
+        // Bonferroni over the runs of a year, F*/(K·N_runs): hourly runs with K = 10 give α ≈ 1.14e-5, daily runs 2.74e-4,
+        // whatever the window each run reads.
+        Assert.Equal(1.14e-5, FalseAlarmBudget.RunAlpha(new CheckThresholds { AlarmChannels = 10, WindowLength = TimeSpan.FromDays(7) }), 7);
+        Assert.Equal(2.74e-4, FalseAlarmBudget.RunAlpha(new CheckThresholds { AlarmChannels = 10, Cadence = TimeSpan.FromDays(1), WindowLength = TimeSpan.FromDays(7) }), 6);
+        Assert.Equal(FalseAlarmBudget.RunAlpha(new CheckThresholds()) / 4.0, FalseAlarmBudget.RunAlpha(new CheckThresholds(), tests: 4), 15);
 
-        // A CUSUM's share at hourly runs (ARL0 = 11 × 8,766 runs) needs h above the one-year 7.921 of methods.md §3.4.
-        Assert.InRange(FalseAlarmBudget.CusumThreshold(new CheckThresholds()), 9.5, 11.0);
+        // Every registered channel counts, and tests sharing one split it.
+        Assert.Equal(CheckRegistry.Channels.Count, FalseAlarmBudget.Channels(new CheckThresholds()));
+        Assert.Equal(19, CheckRegistry.Channels.Count);
+
+        // One channel at hourly runs: ARL0 = 8,766 runs needs h = 7.921 (k = 0.5, two-sided; spc::xcusum.crit, see
+        // PageCusumTests). The default share (K = 19) needs more.
         Assert.Equal(7.921, FalseAlarmBudget.CusumThreshold(new CheckThresholds { AlarmChannels = 1 }), 2);
+        Assert.InRange(FalseAlarmBudget.CusumThreshold(new CheckThresholds()), 10.5, 12.0);
+        Assert.True(FalseAlarmBudget.CusumThreshold(new CheckThresholds(), oneSided: true) < FalseAlarmBudget.CusumThreshold(new CheckThresholds()));
+
+        // The monitors' epoch is a year of runs, with the channel's yearly share as its size.
+        Assert.Equal(8766, FalseAlarmBudget.EpochRuns(new CheckThresholds()));
+        Assert.Equal(365, FalseAlarmBudget.EpochRuns(new CheckThresholds { Cadence = TimeSpan.FromDays(1) }));
+        Assert.Equal(1.0 / 19, FalseAlarmBudget.EpochAlpha(new CheckThresholds()), 6);
     }
 }

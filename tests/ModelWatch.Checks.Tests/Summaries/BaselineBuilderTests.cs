@@ -1,6 +1,6 @@
 using System.Text.Json;
 using ModelWatch.Checks.Summaries;
-using ModelWatch.Checks.Tests.Support;
+using ModelWatch.Calibration;
 using ModelWatch.Numerics.Regression;
 
 namespace ModelWatch.Checks.Tests.Summaries;

@@ -1,5 +1,5 @@
 using ModelWatch.Checks.Summaries;
-using ModelWatch.Checks.Tests.Support;
+using ModelWatch.Calibration;
 using ModelWatch.Numerics.Regression;
 using ModelWatch.Numerics.Statistics;
 

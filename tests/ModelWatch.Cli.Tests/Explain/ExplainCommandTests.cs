@@ -50,12 +50,12 @@ public sealed partial class ExplainCommandTests(PostgresDatabase database, ITest
         Assert.True(run.ExitCode == 0, run.Error);
         Assert.StartsWith($"alert {alert}: model {FerryScenario.Key}, check coefficients, subject model, critical, open", run.Output, StringComparison.Ordinal);
         Assert.Matches(@"What moved \(\d+ critical finding\(s\) in run \d+\):", run.Output);
-        Assert.Contains("[critical] coefficients wald (model): all coefficients against the deployed ones", run.Output, StringComparison.Ordinal);
-        Assert.Contains("[critical] coefficients z (trucks): coefficient of trucks moved from", run.Output, StringComparison.Ordinal);
+        Assert.Contains("[critical] coefficients wald (model): all coefficients of the window's refit against the deployed ones", run.Output, StringComparison.Ordinal);
+        Assert.Contains("[critical] coefficients z (trucks): coefficient of trucks on the window's refit moved from", run.Output, StringComparison.Ordinal);
         Assert.Matches(@"of the error increase over baseline: noise -?\d+ %, level drift -?\d+ %, slope drift \d+ %", run.Output);
         Assert.Matches(@"Features involved: trucks\b", run.Output);
         Assert.Contains("Runbook, coefficients:", run.Output, StringComparison.Ordinal);
-        Assert.Contains(RunbookHints.For("coefficients")!.Action, run.Output, StringComparison.Ordinal);
+        Assert.Contains(RunbookHints.For("coefficients")!.Act, run.Output, StringComparison.Ordinal);
         Assert.Contains(RunbookHints.Caution, run.Output, StringComparison.Ordinal);
     }
 

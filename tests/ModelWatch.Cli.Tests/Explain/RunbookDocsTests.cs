@@ -1,3 +1,4 @@
+using ModelWatch.Checks.Evaluation;
 using ModelWatch.Cli.Reports;
 
 namespace ModelWatch.Cli.Tests.Explain;
@@ -13,12 +14,12 @@ public sealed class RunbookDocsTests
 
         Assert.Contains(RunbookHints.Caution, runbook, StringComparison.Ordinal);
         Assert.Equal(["data", "serving", "coefficients", "collinearity", "residuals", "error", "features"], RunbookHints.All.Select(h => h.Check));
-        foreach (RunbookHint hint in RunbookHints.All)
+        foreach (RunbookEntry hint in RunbookHints.All)
         {
             Assert.Contains($"### `{hint.Check}`", runbook, StringComparison.Ordinal);
             Assert.Contains("**What it means.** " + hint.Meaning, runbook, StringComparison.Ordinal);
             Assert.Contains("**How to confirm.** " + hint.Confirm, runbook, StringComparison.Ordinal);
-            Assert.Contains("**What to do.** " + hint.Action, runbook, StringComparison.Ordinal);
+            Assert.Contains("**What to do.** " + hint.Act, runbook, StringComparison.Ordinal);
         }
     }
 

@@ -82,9 +82,11 @@ public sealed class StoreCommandTests(PostgresDatabase database) : IClassFixture
     }
 
     [Theory]
-    [InlineData("checks:\n  drift:\n    alpha: 0.01", "checks.drift: unknown check (known: data, serving, coefficients")]
+    [InlineData("checks:\n  drift:\n    alpha: 0.01", "checks.drift: unknown check 'drift' (checks: data, serving, coefficients")]
     [InlineData("checks:\n  coefficients:\n    alpha: 0.01", "checks.coefficients: unknown setting 'alpha'")]
-    [InlineData("checks:\n  coefficients:\n    drift_impact_floor: lots", "checks: model cli-thresholds: checks.coefficients.drift_impact_floor")]
+    [InlineData("checks:\n  coefficients:\n    psi_warning: 0.2", "checks.coefficients: 'psi_warning' is a setting of the features check; write it under checks.features")]
+    [InlineData("checks:\n  coefficients:\n    drift_impact_floor: lots", "checks.coefficients: drift_impact_floor: 'lots' is not a finite number")]
+    [InlineData("checks:\n  features:\n    psi_critical: -1", "checks.features: psi_critical: -1 is outside 0–100")]
     public async Task Check_settings_are_validated_before_anything_is_written(string checks, string message)
     {
         string file = WriteSpec("cli-thresholds.yaml", Spec("cli-thresholds") + "\n" + checks + "\n");

@@ -1,4 +1,5 @@
 using Dapper;
+using Microsoft.Extensions.Logging;
 using Microsoft.Extensions.Logging.Abstractions;
 using Microsoft.Extensions.Options;
 using Microsoft.Extensions.Time.Testing;
@@ -36,6 +37,32 @@ public sealed class HousekeepingTests(PostgresDatabase database) : IClassFixture
             Assert.True((await models.GetAsync("folder-one", CancellationToken.None))!.Enabled);
             Assert.False((await models.GetAsync("folder-two", CancellationToken.None))!.Enabled);
             Assert.Null(await models.GetAsync("not-a-key", CancellationToken.None));
+        }
+        finally
+        {
+            Directory.Delete(folder, recursive: true);
+        }
+    }
+
+    [Fact]
+    public async Task A_mistyped_check_or_setting_in_the_spec_folder_applies_nothing_and_says_where()
+    {
+        string folder = Directory.CreateTempSubdirectory("modelwatch-specs-").FullName;
+        try
+        {
+            var models = new ModelRepository(database.DataSource, TimeProvider.System, DaemonTestData.CommandTimeout);
+            using var logs = new CapturedLogs();
+            using var factory = LoggerFactory.Create(b => b.AddProvider(logs));
+            var sync = new SpecDirectorySync(models, Microsoft.Extensions.Options.Options.Create(new SpecsOptions { Directory = folder }), TimeProvider.System, factory.CreateLogger<SpecDirectorySync>());
+            await File.WriteAllTextAsync(Path.Combine(folder, "typo-check.yaml"), DaemonTestData.Yaml("typo-check") + "\nchecks:\n  coeficients:\n    drift_impact_floor: 0.2\n");
+            await File.WriteAllTextAsync(Path.Combine(folder, "typo-setting.yaml"), DaemonTestData.Yaml("typo-setting") + "\nchecks:\n  features:\n    drift_impact_floor: 0.2\n");
+
+            Assert.False(await sync.SyncAsync(folder, CancellationToken.None));
+
+            Assert.Null(await models.GetAsync("typo-check", CancellationToken.None));
+            Assert.Null(await models.GetAsync("typo-setting", CancellationToken.None));
+            Assert.Contains(logs.Records, r => r.Message.Contains("typo-check.yaml: checks.coeficients: unknown check 'coeficients'", StringComparison.Ordinal));
+            Assert.Contains(logs.Records, r => r.Message.Contains("typo-setting.yaml: checks.features: 'drift_impact_floor' is a setting of the coefficients check", StringComparison.Ordinal));
         }
         finally
         {

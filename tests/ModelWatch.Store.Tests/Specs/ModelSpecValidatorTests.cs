@@ -21,7 +21,7 @@ public sealed class ModelSpecValidatorTests
         min_rows: 200
         missing: fail
         checks:
-          coefficient_drift: { alpha: 0.01 }
+          coefficients: { drift_impact_floor: 0.2, warning_alerts: true }
         notify: [bakery-oncall]
         label_delay: 6h
         prediction_column: forecast
@@ -45,7 +45,7 @@ public sealed class ModelSpecValidatorTests
         Assert.Equal(TimeSpan.FromDays(7), spec.Window.Length);
         Assert.Equal(200, spec.MinRows);
         Assert.Equal(MissingValuePolicy.Fail, spec.Missing);
-        Assert.Equal("0.01", spec.Checks["coefficient_drift"]["alpha"]);
+        Assert.Equal("0.2", spec.Checks["coefficients"]["drift_impact_floor"]);
         Assert.Equal(["bakery-oncall"], spec.Notify);
         Assert.Equal(TimeSpan.FromHours(6), spec.LabelDelay.Length);
         Assert.Equal("forecast", spec.PredictionColumn);
