@@ -17,7 +17,9 @@ namespace ModelWatch.Checks.Coefficients;
 /// recursive estimates: with no change each d is independent of every earlier one (its covariance with the previous
 /// block's is zero, since the running fit absorbs each block by its precision), so every run adds an independent piece
 /// of evidence and the CUSUM's tabulated ARL applies. A block with too few rows for its own estimate waits for the
-/// next run's rows. A crossing pages at once when the newest rows' drift also matters for predictions.
+/// next run's rows; from an alarm until every sum is back at zero, blocks stay out of the running fit (a shift's rows
+/// are kept out). A crossing pages at once when the coefficient's own move, on the newest rows against the deployed
+/// value, also matters for predictions (<see cref="PredictiveImpact.PerCoefficient"/>).
 /// </summary>
 internal static class CoefficientCusums
 {
@@ -55,7 +57,7 @@ internal static class CoefficientCusums
         double[] blockVariance = InverseDiagonal(block, p);
         double[] bBefore = RegressionMath.Estimates(before);
         double[] bBlock = RegressionMath.Estimates(blockFit);
-        bool practical = recent is { } r && r.Corrected >= input.Setting(CoefficientsCheck.DriftImpactFloor);
+        double floor = input.Setting(CoefficientsCheck.DriftImpactFloor);
         var sums = new Dictionary<string, CusumSums>(state.Cusums, StringComparer.Ordinal);
         var findings = new List<Finding>();
         foreach (int j in slopes)
@@ -67,6 +69,9 @@ internal static class CoefficientCusums
             (CusumSums next, bool alarm, CusumSums crossed) = sums.GetValueOrDefault(term, new CusumSums()).Step(z, k, h);
             sums[term] = next;
             string direction = crossed.Upper >= crossed.Lower ? "up" : "down";
+
+            // Pages only when this coefficient's own move, on the newest rows against the deployed value, matters.
+            bool practical = recent is { } r && r.PerCoefficient[j] >= floor;
             findings.Add(new Finding
             {
                 Check = check,
@@ -79,14 +84,17 @@ internal static class CoefficientCusums
                 EffectSizeName = "coefficient_change",
                 RequiresPersistence = false,
                 Explanation = alarm
-                    ? Fmt($"the coefficient of {term} has moved {direction}: the {block.RowCount} new rows give {Num(bBlock[j])} against {Num(bBefore[j])} from all rows before; CUSUM {Num(crossed.Peak)} crossed h = {Num(h)}")
+                    ? Fmt($"the coefficient of {term} has moved {direction}: the {block.RowCount} new rows give {Num(bBlock[j])} against {Num(bBefore[j])} from all rows before; CUSUM {Num(crossed.Peak)} crossed h = {Num(h)}; {CoefficientsCheck.Impact(recent, j, floor)}")
                     : Fmt($"CUSUM of {term}'s coefficient at {Num(crossed.Peak)} of h = {Num(h)}; the {block.RowCount} new rows give {Num(bBlock[j])} against {Num(bBefore[j])} (z = {Num(z)})"),
                 Details = Details(("z", z), ("upper", crossed.Upper), ("lower", crossed.Lower), ("new_rows", block.RowCount), ("block_estimate", bBlock[j]), ("running_estimate", bBefore[j])),
             });
         }
 
-        AugmentedFactor merged = RegressionMath.Merge(running, block);
-        return (findings, state with { Running = StoredFactor.Of(merged), Pending = null, Cusums = sums });
+        // From an alarm until every sum is back at zero the block stays out of the running fit (see the residuals' CUSUMs).
+        bool alarmed = sums.Any(kv => kv.Value.Alarms > state.Cusums.GetValueOrDefault(kv.Key, new CusumSums()).Alarms);
+        bool quarantined = alarmed || (state.Quarantined && sums.Values.Any(x => x.Peak > 0.0));
+        AugmentedFactor kept = state.Quarantined || alarmed ? running : RegressionMath.Merge(running, block);
+        return (findings, state with { Running = StoredFactor.Of(kept), Pending = null, Cusums = sums, Quarantined = quarantined });
     }
 
     /// <summary>The diagonal of <c>(RᵀR)⁻¹</c>: the squared row norms of R⁻¹.</summary>

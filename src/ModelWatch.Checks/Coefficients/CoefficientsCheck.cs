@@ -47,6 +47,19 @@ public sealed class CoefficientsCheck : IModelCheck
         "Look at the coefficient trajectories in the evidence report: a step that persists over several runs is a change; a single spike usually is not. Ask whether something changed in the process the model describes (a tariff, a route, a policy) around the first critical run.",
         "Tell the model's owner which coefficients moved and by how much. If the change is real and lasting, the owner decides whether to retrain and register a new baseline; until then, expect predictions to be biased in the direction shown.");
 
+    /// <summary>How much a coefficient's (or, with a negative index, the level's) move would cost predictions, in words.</summary>
+    internal static string Impact(PredictiveImpact? recent, int term, double floor)
+    {
+        if (recent is null)
+        {
+            return "no refit to measure what the move costs";
+        }
+
+        double share = term >= 0 ? recent.PerCoefficient[term] : recent.Level;
+        string what = term >= 0 ? "this move alone" : "this level shift alone";
+        return Fmt($"{what} would raise the MSE of the {(recent.OnNewRows ? "new" : "window's")} {recent.Rows} rows by {Pct(share)} beyond noise (floor {Pct(floor)})");
+    }
+
     /// <inheritdoc />
     public CheckResult Run(CheckInput input)
     {

@@ -15,13 +15,15 @@ namespace ModelWatch.Checks.Coefficients;
 /// <item>moving estimates (Chu, Hornik &amp; Kuan 1995; Leisch, Hornik &amp; Kuan 2000), one component per slope, each
 /// standardized along its own coefficient so a crossing names it (<see cref="MovingEstimates"/>);</item>
 /// <item>OLS-MOSUM: the window's sum of deployed errors over <c>s_ref·√n</c>, which moves with the level of the fit;</item>
-/// <item>OLS-CUSUM (Chu, Stinchcombe &amp; White 1996): the sum of the deployed errors of every row consumed in the epoch.</item>
+/// <item>OLS-CUSUM (Chu, Stinchcombe &amp; White 1996): the sum of the deployed errors of every row consumed since it
+/// started (at each epoch, and again after each crossing, so that a shift that has ended stops counting).</item>
 /// </list>
 /// The moving-window boundaries <c>c·√(2·log₊ x)</c> take c from the simulated null of the run-end design (window h,
 /// r runs a window, N runs an epoch; <see cref="MovingWindowNull"/>); the OLS-CUSUM boundary takes Chu, Stinchcombe &amp;
 /// White's c. Each monitor's size over an epoch is its share of the channel's yearly budget, the moving-estimates
 /// components splitting theirs (Bonferroni); each epoch is a year by default, after which the monitors restart.
-/// A crossing pages at once when the drift of the newest rows also matters for predictions (<see cref="PredictiveImpact"/>).
+/// A crossing pages at once when the move also matters for predictions on the newest rows: the named coefficient's own
+/// move for a moving-estimates component, the level shift for the OLS monitors (<see cref="PredictiveImpact"/>).
 /// </summary>
 internal static class StructuralChangeMonitors
 {
@@ -42,7 +44,7 @@ internal static class StructuralChangeMonitors
         int epochRuns = FalseAlarmBudget.EpochRuns(t);
         if (state.EpochRuns >= epochRuns)
         {
-            state = state with { Epoch = state.Epoch + 1, EpochRuns = 0, EpochRows = 0, EpochErrorSum = 0.0 };
+            state = state with { Epoch = state.Epoch + 1, EpochRuns = 0, EpochRows = 0, CusumRows = 0, CusumErrorSum = 0.0 };
         }
 
         AugmentedFactor? fresh = incrementUsable ? input.Window.NewRows : null;
@@ -51,12 +53,14 @@ internal static class StructuralChangeMonitors
         {
             EpochRuns = state.EpochRuns + 1,
             EpochRows = state.EpochRows + (fresh?.RowCount ?? 0),
-            EpochErrorSum = state.EpochErrorSum + (fresh is null ? 0.0 : ErrorSum(layout, fresh, b0)),
+            CusumRows = state.CusumRows + (fresh?.RowCount ?? 0),
+            CusumErrorSum = state.CusumErrorSum + (fresh is null ? 0.0 : ErrorSum(layout, fresh, b0)),
         };
         var findings = new List<Finding>();
         double x = 1.0 + (state.EpochRows / n);
-        bool practical = recent is { } r && r.Corrected >= input.Setting(CoefficientsCheck.DriftImpactFloor);
-        string impact = recent is null ? "no refit to measure the drift's impact" : Fmt($"drift would raise the MSE of the {(recent.OnNewRows ? "new" : "window's")} {recent.Rows} rows by {Pct(recent.Corrected)} beyond noise (floor {Pct(input.Setting(CoefficientsCheck.DriftImpactFloor))})");
+        double floor = input.Setting(CoefficientsCheck.DriftImpactFloor);
+        bool levelPractical = recent is { } r && r.Level >= floor;
+        string levelImpact = CoefficientsCheck.Impact(recent, -1, floor);
         long k = input.Window.RowsAccepted;
         var slopes = Enumerable.Range(0, layout.ParameterCount).Where(j => !(layout.Intercept && j == 0)).ToList();
         double h = k / n;
@@ -75,6 +79,7 @@ internal static class StructuralChangeMonitors
                 double z = me.Standardized[j];
                 double pValue = Math.Min(1.0, slopes.Count * nullDistribution.PValue(Math.Abs(z) / spread / MonitoringBoundary.MovingWindow(1.0, x)));
                 bool crossed = Math.Abs(z) > boundary;
+                bool practical = recent is { } r2 && r2.PerCoefficient[j] >= floor;
                 findings.Add(new Finding
                 {
                     Check = check,
@@ -88,7 +93,7 @@ internal static class StructuralChangeMonitors
                     EffectSizeName = "coefficient_change",
                     RequiresPersistence = false,
                     Explanation = crossed
-                        ? Fmt($"the coefficient of {layout.Terms[j]} has moved: {Num(me.Estimates[j])} on the window's {k} rows against {Num(b0[j])} deployed; the moving-estimates monitor at {Num(z)} crossed its boundary ±{Num(boundary)}; {impact}")
+                        ? Fmt($"the coefficient of {layout.Terms[j]} has moved: {Num(me.Estimates[j])} on the window's {k} rows against {Num(b0[j])} deployed; the moving-estimates monitor at {Num(z)} crossed its boundary ±{Num(boundary)}; {CoefficientsCheck.Impact(recent, j, floor)}")
                         : Fmt($"moving estimate of {layout.Terms[j]}: {Num(me.Estimates[j])} against {Num(b0[j])} deployed, monitor {Num(z)} within ±{Num(boundary)}"),
                     Details = Details(("estimate", me.Estimates[j]), ("baseline", b0[j]), ("critical_value", c), ("monitoring_time", x), ("window_fraction", k / n), ("epoch", state.Epoch)),
                 });
@@ -96,19 +101,24 @@ internal static class StructuralChangeMonitors
 
             double mosum = ResidualSumProcess.Value(input.Window.DeployedErrorSum, s, n);
             double mosumBoundary = MonitoringBoundary.MovingWindow(nullDistribution.StandardizedCriticalValue(levelAlpha) * spread, x);
-            findings.Add(Level(input, "ols_mosum", mosum, mosumBoundary, Math.Min(1.0, 2.0 * nullDistribution.PValue(Math.Abs(mosum) / spread / MonitoringBoundary.MovingWindow(1.0, x))), practical, impact, Fmt($"the window's {k} rows")));
+            findings.Add(Level("ols_mosum", mosum, mosumBoundary, Math.Min(1.0, 2.0 * nullDistribution.PValue(Math.Abs(mosum) / spread / MonitoringBoundary.MovingWindow(1.0, x))), levelPractical, levelImpact, Fmt($"the window's {k} rows")));
         }
         else
         {
             findings.Add(Skip(check, "moving_estimates", SkipReasons.RankDeficient, "the window's design does not determine every coefficient, so the moving-estimates monitor cannot run"));
         }
 
-        if (incrementUsable && state.EpochRows > 0)
+        if (incrementUsable && state.CusumRows > 0)
         {
-            double cusum = ResidualSumProcess.Value(HistoryErrorSum(baseline, b0) + state.EpochErrorSum, s, n);
-            double cusumCritical = MonitoringBoundary.CusumCriticalValue(levelAlpha);
-            double cusumBoundary = MonitoringBoundary.Cusum(cusumCritical, x);
-            findings.Add(Level(input, "ols_cusum", cusum, cusumBoundary, double.NaN, practical, impact, Fmt($"the {state.EpochRows} rows consumed in this epoch")));
+            double cusum = ResidualSumProcess.Value(HistoryErrorSum(baseline, b0) + state.CusumErrorSum, s, n);
+            double cusumBoundary = MonitoringBoundary.Cusum(MonitoringBoundary.CusumCriticalValue(levelAlpha), 1.0 + (state.CusumRows / n));
+            findings.Add(Level("ols_cusum", cusum, cusumBoundary, double.NaN, levelPractical, levelImpact, Fmt($"the {state.CusumRows} rows summed since the monitor (re)started")));
+            if (Math.Abs(cusum) > cusumBoundary)
+            {
+                // A sum over every row since the start never forgets a shift that has ended; after a crossing it starts
+                // again, so it crosses again only while the shift lasts.
+                state = state with { CusumErrorSum = 0.0, CusumRows = 0 };
+            }
         }
 
         return (findings, state);
@@ -126,7 +136,7 @@ internal static class StructuralChangeMonitors
         return new MovingWindowDesign(grid, perWindow, FalseAlarmBudget.EpochRuns(thresholds), OverlapsHistory: false);
     }
 
-    private static Finding Level(CheckInput input, string statistic, double value, double boundary, double pValue, bool practical, string impact, string rows)
+    private static Finding Level(string statistic, double value, double boundary, double pValue, bool practical, string impact, string rows)
     {
         bool crossed = Math.Abs(value) > boundary;
         string direction = value > 0 ? "above" : "below";

@@ -25,7 +25,7 @@ internal static class WaldEvidence
         double[] b0 = baseline.CoefficientVector();
         double[] bHat = RegressionMath.Estimates(fit);
         double[] delta = bHat.Select((b, j) => b - b0[j]).ToArray();
-        double impact = PredictiveImpact.Of(baseline, fit, onNewRows: false).Raw;
+        double impact = PredictiveImpact.Raw(baseline, fit);
         double floor = input.Setting(CoefficientsCheck.DriftImpactFloor);
         bool practical = impact >= floor;
         double alpha = input.RunAlpha();

@@ -1,5 +1,6 @@
 using ModelWatch.Checks.Evaluation;
 using ModelWatch.Checks.Findings;
+using ModelWatch.Checks.Sequential;
 using ModelWatch.Numerics.Regression;
 using static ModelWatch.Checks.Evaluation.FindingText;
 
@@ -8,11 +9,12 @@ namespace ModelWatch.Checks.Collinearity;
 /// <summary>
 /// <c>collinearity</c>, on every run: VIFs and the BKW-scaled condition number of the window's design, and of the
 /// rows new since the previous run (which show a new near-dependency a run after it starts, while a long window
-/// dilutes it), against the baseline. Each is an effect size with a floor (VIF ≥ 10 and twice the baseline; condition
+/// dilutes it; when one run brings too few, they are gathered over runs), against the baseline. Each is an effect size with a floor (VIF ≥ 10 and twice the baseline; condition
 /// number ≥ 100 and 10^0.5 times the baseline) and a null spread from sets of the same size resampled from the
 /// baseline rows (<see cref="CollinearityNull"/>), tested at the run's budgeted α; the strongest near-dependency is
-/// named from the variance-decomposition proportions (Belsley, Kuh &amp; Welsch 1980). Loss of numerical rank is
-/// critical at once and names the aliased columns.
+/// named from the variance-decomposition proportions (Belsley, Kuh &amp; Welsch 1980). A reading of the window is a per-run
+/// test (persistence applies); a reading of new rows is a block that no earlier reading saw, so it pages at once. Loss
+/// of numerical rank is critical at once and names the aliased columns.
 /// </summary>
 public sealed class CollinearityCheck : IModelCheck
 {
@@ -83,22 +85,26 @@ public sealed class CollinearityCheck : IModelCheck
         }
 
         int minimum = (int)input.Setting(RowsPerCoefficient) * input.Baseline.ToLayout().ParameterCount;
+        CollinearityState memory = state.Read<CollinearityState>();
         if (fit is null || input.Window.RowsAccepted < minimum)
         {
             return new CheckResult { Check = Name, State = state, Findings = [Skip(Name, "vif", SkipReasons.InsufficientData, Fmt($"VIFs are too noisy below {minimum} rows ({input.Setting(RowsPerCoefficient)} per coefficient)"))] };
         }
 
-        // The new rows get their own reading once they are enough and are not the whole window already.
-        AugmentedFactor? fresh = input.Window.NewRows is { } rows && rows.RowCount >= minimum && rows.RowCount < input.Window.RowsAccepted ? rows : null;
-        FitSummary? freshFit = fresh is null ? null : LeastSquaresFit.Fit(fresh);
-        int sets = freshFit is { IsFullRank: true } ? 2 : 1;
+        // The new rows get their own reading once they are enough, gathered over runs when one run brings too few, and
+        // unless they are the whole window already.
+        AugmentedFactor? fresh = Increment.Of(input) is { } rows && rows.RowCount < input.Window.RowsAccepted ? rows : null;
+        AugmentedFactor? block = fresh is null ? null : memory.Pending is { } pending ? RegressionMath.Merge(pending.ToFactor(fresh.Layout), fresh) : fresh;
+        FitSummary? blockFit = block is not null && block.RowCount >= minimum ? LeastSquaresFit.Fit(block) : null;
+        int sets = blockFit is { IsFullRank: true } ? 2 : 1;
         double alpha = input.RunAlpha(tests: sets * (input.Baseline.Features.Count + 1));
         var findings = new List<Finding>(CollinearityReading.Read(input, fit, newRows: false, alpha));
-        if (freshFit is { IsFullRank: true })
+        if (blockFit is { IsFullRank: true })
         {
-            findings.AddRange(CollinearityReading.Read(input, freshFit, newRows: true, alpha));
+            findings.AddRange(CollinearityReading.Read(input, blockFit, newRows: true, alpha));
         }
 
-        return new CheckResult { Check = Name, State = state, Findings = findings };
+        memory = memory with { Pending = blockFit is null && block is not null ? StoredFactor.Of(block) : null };
+        return new CheckResult { Check = Name, State = state.With(memory), Findings = findings };
     }
 }

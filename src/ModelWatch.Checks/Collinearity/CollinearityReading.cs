@@ -44,10 +44,11 @@ internal static class CollinearityReading
                 EffectSizeName = "vif_ratio",
                 Explanation = Fmt($"VIF of {feature} in {rows} is {Num(vif)} against {Num(reference)} at baseline (×{Num(ratio)}; pages at {Num(vifAlarm)} and ×{Num(vifRatio)}): its coefficient's variance is inflated that much by the other features{(double.IsNaN(p) ? string.Empty : ", " + P(p) + " against sets of this size drawn from the baseline")}"),
                 Details = Details(("baseline_vif", reference), ("rows", fit.RowCount)),
+                RequiresPersistence = !newRows,
             };
         }
 
-        yield return Condition(input, fit, spread, suffix, rows, alpha);
+        yield return Condition(input, fit, spread, suffix, rows, alpha) with { RequiresPersistence = !newRows };
     }
 
     private static Finding Condition(CheckInput input, FitSummary fit, CollinearityNull? spread, string suffix, string rows, double alpha)

@@ -21,8 +21,10 @@ namespace ModelWatch.Checks.Features;
 /// <item>extrapolation: the new rows above the reference's leverage threshold against the share before
 /// (beta-binomial mid-p), as a normal score into a one-sided CUSUM.</item>
 /// </list>
-/// Blocks too small for a chi-square or an exceedance count wait (pending) and join the next run's rows. A crossing
-/// pages when the new rows' shift is also practical (location floor, PSI cut-off, leverage excess).
+/// Blocks too small for a chi-square or an exceedance count wait (pending) and join the next run's rows. From an alarm
+/// until the sums are back at zero, rows stay out of the running means and counts, so a shift's rows are kept out and
+/// its end is not mistaken for a new shift. A crossing pages when the new rows' shift is also practical (location floor, PSI
+/// cut-off, leverage excess).
 /// </summary>
 internal static class FeatureCusums
 {
@@ -136,7 +138,12 @@ internal static class FeatureCusums
             });
         }
 
-        return state with { Means = means, MeanRows = state.MeanRows + (long)m, Location = sums };
+        // From an alarm until every sum is back at zero, rows stay out of the running means (a shift's rows are kept out).
+        bool alarmed = sums.Any(kv => kv.Value.Alarms > state.Location.GetValueOrDefault(kv.Key, new CusumSums()).Alarms);
+        bool quarantined = alarmed || (state.LocationQuarantined && sums.Values.Any(x => x.Peak > 0.0));
+        return state.LocationQuarantined || alarmed
+            ? state with { Location = sums, LocationQuarantined = quarantined }
+            : state with { Means = means, MeanRows = state.MeanRows + (long)m, Location = sums, LocationQuarantined = quarantined };
     }
 
     private static FeaturesState Shape(CheckInput input, FeaturesState state, double k, List<Finding> findings)
@@ -185,8 +192,10 @@ internal static class FeatureCusums
             });
         }
 
-        long[][] counts = [.. state.BinCounts.Select((c, j) => c.Zip(pending[j], (a, b) => a + b).ToArray())];
-        return state with { BinCounts = counts, PendingBinCounts = [.. pending.Select(p => new long[p.Length])], Shape = sums };
+        bool alarmed = sums.Any(kv => kv.Value.Alarms > state.Shape.GetValueOrDefault(kv.Key, new CusumSums()).Alarms);
+        bool quarantined = alarmed || (state.ShapeQuarantined && sums.Values.Any(x => x.Peak > 0.0));
+        long[][] counts = state.ShapeQuarantined || alarmed ? state.BinCounts : [.. state.BinCounts.Select((c, j) => c.Zip(pending[j], (a, b) => a + b).ToArray())];
+        return state with { BinCounts = counts, PendingBinCounts = [.. pending.Select(p => new long[p.Length])], Shape = sums, ShapeQuarantined = quarantined };
     }
 
     private static FeaturesState Leverage(CheckInput input, FeaturesState state, long newRows, double k, List<Finding> findings)
@@ -223,10 +232,12 @@ internal static class FeatureCusums
                 : Fmt($"CUSUM of leverage exceedances at {Num(crossed.Upper)} of h = {Num(h)}; {exceed} of {rows} new rows ({Pct(share)}) beyond the reference's 99th percentile"),
             Details = Details(("z", z), ("exceedances", exceed), ("new_rows", rows)),
         });
+        bool keepOut = state.LeverageQuarantined || alarm;
         return state with
         {
-            LeverageExceedances = state.LeverageExceedances + exceed,
-            LeverageRows = state.LeverageRows + rows,
+            LeverageExceedances = state.LeverageExceedances + (keepOut ? 0 : exceed),
+            LeverageRows = state.LeverageRows + (keepOut ? 0 : rows),
+            LeverageQuarantined = alarm || (state.LeverageQuarantined && next.Peak > 0.0),
             PendingLeverageRows = 0,
             PendingLeverageExceedances = 0,
             Leverage = next,

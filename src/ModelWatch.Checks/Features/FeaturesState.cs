@@ -40,4 +40,13 @@ public sealed record FeaturesState
 
     /// <summary>Leverage-exceedance CUSUM.</summary>
     public CusumSums Leverage { get; init; } = new();
+
+    /// <summary>True from a location alarm until every location sum is back at zero (rows stay out of the running means).</summary>
+    public bool LocationQuarantined { get; init; }
+
+    /// <summary>True from a shape alarm until every shape sum is back at zero (rows stay out of the running counts).</summary>
+    public bool ShapeQuarantined { get; init; }
+
+    /// <summary>True from a leverage alarm until its sum is back at zero (rows stay out of the running counts).</summary>
+    public bool LeverageQuarantined { get; init; }
 }

@@ -22,7 +22,9 @@ namespace ModelWatch.Checks.Residuals;
 /// score; the ratios of successive running RSS are mutually independent (Lukacs 1955, from memory), so these inputs
 /// are independent too.</item>
 /// </list>
-/// Each uses k and the h of its share of the budget; each sum resets after its alarm.
+/// Each uses k and the h of its share of the budget; each sum resets after its alarm. From an alarm until both sums are
+/// back at zero, new rows stay out of the running fit: the fit stays what it was before the shift, the sums keep
+/// signalling while it lasts, and its end is not mistaken for a new shift the other way.
 /// </summary>
 internal static class ResidualCusums
 {
@@ -92,7 +94,13 @@ internal static class ResidualCusums
 
         AugmentedFactor merged = RegressionMath.Merge(running, fresh);
         (Finding varianceFinding, CusumSums variance) = Variance(input, state.Variance, running, merged, h, k);
-        return ([biasFinding, varianceFinding], state with { Running = StoredFactor.Of(merged), Bias = bias, Variance = variance });
+
+        // After an alarm, rows stay out of the running fit until both sums are back at zero: rows of a shift would pull the
+        // fit towards it, and the shift's end would then look like a new shift the other way. Under no change alarms are
+        // rare, so the inputs stay independent nearly always.
+        bool alarmed = biasFinding.Severity == Severity.Critical || varianceFinding.Severity == Severity.Critical || bias.Alarms > state.Bias.Alarms || variance.Alarms > state.Variance.Alarms;
+        bool quarantined = alarmed || (state.Quarantined && (bias.Peak > 0.0 || variance.Peak > 0.0));
+        return ([biasFinding, varianceFinding], state with { Running = StoredFactor.Of(state.Quarantined || alarmed ? running : merged), Bias = bias, Variance = variance, Quarantined = quarantined });
     }
 
     private static (Finding Finding, CusumSums Sums) Variance(CheckInput input, CusumSums sums, AugmentedFactor before, AugmentedFactor after, double h, double k)

@@ -13,4 +13,7 @@ public sealed record ResidualsState
 
     /// <summary>The variance CUSUM.</summary>
     public CusumSums Variance { get; init; } = new();
+
+    /// <summary>True from an alarm until both sums are back at zero: new rows are kept out of the running fit meanwhile.</summary>
+    public bool Quarantined { get; init; }
 }

@@ -9,8 +9,9 @@ namespace ModelWatch.Cli.Demo;
 
 /// <summary>
 /// The demo's invented scenario: a city courier's delivery-duration model (route_km, stops, parcel_kg, traffic_index →
-/// minutes) watched every 6 hours on a 6-hour window. The first week is clean and becomes the baseline; three
-/// incidents follow, each separated by clean days so that their alerts can resolve.
+/// minutes) watched every 6 hours on a rolling 24-hour window, so each run re-reads the last day and four runs share
+/// every row. The first week is clean and becomes the baseline; three incidents follow, each separated by clean days so
+/// that their alerts can resolve.
 /// </summary>
 internal static class DemoScenario
 {
@@ -28,6 +29,9 @@ internal static class DemoScenario
     public static readonly DateTimeOffset DataEnd = DataStart.AddDays(36);
 
     public static readonly TimeSpan Cadence = TimeSpan.FromHours(6);
+
+    /// <summary>The rolling window each run reads: four times the cadence.</summary>
+    public static readonly TimeSpan Window = TimeSpan.FromHours(24);
 
     public static readonly DemoIncident CoefficientChange = new(
         1, "coefficient change", "coefficients", DataStart.AddDays(12), DataStart.AddDays(16),
@@ -61,7 +65,7 @@ internal static class DemoScenario
         outcome: minutes
         features: [route_km, stops, parcel_kg, traffic_index]
         schedule: 6h
-        window: 6h
+        window: 24h
         """;
 
     /// <summary>Creates the deliveries table (replacing an earlier demo's) and fills it.</summary>

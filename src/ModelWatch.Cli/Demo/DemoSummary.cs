@@ -42,7 +42,7 @@ internal static class DemoSummary
             caught += expected is null ? 0 : 1;
             string verdict = expected is null
                 ? $"NOT caught by {incident.Check}"
-                : string.Create(CultureInfo.InvariantCulture, $"caught by {incident.Check} after {(Utc(expected.OpenedAt) - incident.Start).TotalHours:F0} h");
+                : string.Create(CultureInfo.InvariantCulture, $"caught by {incident.Check} at run {DelayInRuns(incident, expected)} after it began ({DelayInRuns(incident, expected) * DemoScenario.Cadence.TotalHours:F0} h of changed rows; opened {DemoRunner.Stamp(Utc(expected.OpenedAt))})");
             output.WriteLine($"  Incident {incident.Number}, {incident.Name} ({DemoRunner.Stamp(incident.Start)} to {DemoRunner.Stamp(incident.End)}): {verdict}");
             foreach (AlertView alert in during)
             {
@@ -61,6 +61,13 @@ internal static class DemoSummary
 
         output.WriteLine($"  {caught} of {DemoScenario.Incidents.Count} incidents caught by the check meant for them. An alert is statistical evidence, not proof: what to do about it stays with the model's owner.");
     }
+
+    /// <summary>
+    /// The run of the incident that opened the alert, counting the first run whose window held changed rows as 1: runs
+    /// fall on the slots, and a run records its alert well within one cadence of its slot.
+    /// </summary>
+    internal static int DelayInRuns(DemoIncident incident, AlertView alert) =>
+        (int)Math.Floor((Utc(alert.OpenedAt) - incident.Start) / DemoScenario.Cadence);
 
     private static string Line(AlertView alert)
     {

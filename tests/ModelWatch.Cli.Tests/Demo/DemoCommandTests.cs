@@ -17,7 +17,7 @@ public sealed class DemoCommandTests(PostgresDatabase database) : IClassFixture<
         CliRun run = await CliRun.InvokeAsync("demo", "--database", database.ConnectionString);
 
         Assert.True(run.ExitCode == ExitCodes.Ok, run.Output + run.Error);
-        Assert.Contains("3 of 3 incidents caught", run.Output, StringComparison.Ordinal);
+        Assert.True(run.Output.Contains("3 of 3 incidents caught", StringComparison.Ordinal), run.Output + run.Error);
         long runs = await Count("SELECT count(*) FROM modelwatch.run WHERE model_key = 'courier-eta' AND status = 'ok'");
         Assert.Equal(DemoScenario.ExpectedRuns, runs);
 
