@@ -3,6 +3,13 @@ using System.Globalization;
 using ModelWatch.Calibration;
 
 // dotnet run -c Release --project tests/ModelWatch.Calibration -- [--model-years 20] [--trials 100] [--rows-per-hour 60] [--ratios 1,7,24]
+// dotnet run -c Release --project tests/ModelWatch.Calibration -- --constants     (the budget's derived constants, for docs/checks.md)
+if (args.Contains("--constants"))
+{
+    BudgetConstants.Write(Console.Out);
+    return;
+}
+
 var options = args.Select((a, i) => (a, i)).Where(x => x.a.StartsWith("--", StringComparison.Ordinal))
     .ToDictionary(x => x.a[2..], x => x.i + 1 < args.Length ? args[x.i + 1] : "", StringComparer.Ordinal);
 int Option(string name, int fallback) => options.TryGetValue(name, out string? v) ? int.Parse(v, CultureInfo.InvariantCulture) : fallback;

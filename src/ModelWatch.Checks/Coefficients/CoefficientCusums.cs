@@ -90,11 +90,9 @@ internal static class CoefficientCusums
             });
         }
 
-        // From an alarm until every sum is back at zero the block stays out of the running fit (see the residuals' CUSUMs).
-        bool alarmed = sums.Any(kv => kv.Value.Alarms > state.Cusums.GetValueOrDefault(kv.Key, new CusumSums()).Alarms);
-        bool quarantined = alarmed || (state.Quarantined && sums.Values.Any(x => x.Peak > 0.0));
+        bool alarmed = Quarantine.Alarmed(state.Cusums, sums);
         AugmentedFactor kept = state.Quarantined || alarmed ? running : RegressionMath.Merge(running, block);
-        return (findings, state with { Running = StoredFactor.Of(kept), Pending = null, Cusums = sums, Quarantined = quarantined });
+        return (findings, state with { Running = StoredFactor.Of(kept), Pending = null, Cusums = sums, Quarantined = Quarantine.After(state.Quarantined, alarmed, sums.Values) });
     }
 
     /// <summary>The diagonal of <c>(RᵀR)⁻¹</c>: the squared row norms of R⁻¹.</summary>

@@ -138,9 +138,8 @@ internal static class FeatureCusums
             });
         }
 
-        // From an alarm until every sum is back at zero, rows stay out of the running means (a shift's rows are kept out).
-        bool alarmed = sums.Any(kv => kv.Value.Alarms > state.Location.GetValueOrDefault(kv.Key, new CusumSums()).Alarms);
-        bool quarantined = alarmed || (state.LocationQuarantined && sums.Values.Any(x => x.Peak > 0.0));
+        bool alarmed = Quarantine.Alarmed(state.Location, sums);
+        bool quarantined = Quarantine.After(state.LocationQuarantined, alarmed, sums.Values);
         return state.LocationQuarantined || alarmed
             ? state with { Location = sums, LocationQuarantined = quarantined }
             : state with { Means = means, MeanRows = state.MeanRows + (long)m, Location = sums, LocationQuarantined = quarantined };
@@ -192,10 +191,9 @@ internal static class FeatureCusums
             });
         }
 
-        bool alarmed = sums.Any(kv => kv.Value.Alarms > state.Shape.GetValueOrDefault(kv.Key, new CusumSums()).Alarms);
-        bool quarantined = alarmed || (state.ShapeQuarantined && sums.Values.Any(x => x.Peak > 0.0));
+        bool alarmed = Quarantine.Alarmed(state.Shape, sums);
         long[][] counts = state.ShapeQuarantined || alarmed ? state.BinCounts : [.. state.BinCounts.Select((c, j) => c.Zip(pending[j], (a, b) => a + b).ToArray())];
-        return state with { BinCounts = counts, PendingBinCounts = [.. pending.Select(p => new long[p.Length])], Shape = sums, ShapeQuarantined = quarantined };
+        return state with { BinCounts = counts, PendingBinCounts = [.. pending.Select(p => new long[p.Length])], Shape = sums, ShapeQuarantined = Quarantine.After(state.ShapeQuarantined, alarmed, sums.Values) };
     }
 
     private static FeaturesState Leverage(CheckInput input, FeaturesState state, long newRows, double k, List<Finding> findings)
@@ -237,7 +235,7 @@ internal static class FeatureCusums
         {
             LeverageExceedances = state.LeverageExceedances + (keepOut ? 0 : exceed),
             LeverageRows = state.LeverageRows + (keepOut ? 0 : rows),
-            LeverageQuarantined = alarm || (state.LeverageQuarantined && next.Peak > 0.0),
+            LeverageQuarantined = Quarantine.After(state.LeverageQuarantined, alarm, [next]),
             PendingLeverageRows = 0,
             PendingLeverageExceedances = 0,
             Leverage = next,

@@ -9,7 +9,10 @@ public static class SkipReasons
     /// <summary>The baseline lacks what the test needs (covariance, factor, samples, bins).</summary>
     public const string BaselineIncomplete = "baseline_incomplete";
 
-    /// <summary>The window overlaps the last window a fixed-sample test used; it runs again on the next non-overlapping window.</summary>
+    /// <summary>
+    /// Written by versions before every run was tested: the window overlapped the last tested one. No check writes it now;
+    /// it is kept because stored findings still carry it.
+    /// </summary>
     public const string NotDue = "not_due";
 
     /// <summary>The window's refit is rank deficient, so its coefficients cannot be compared.</summary>

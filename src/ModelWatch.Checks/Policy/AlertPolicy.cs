@@ -4,14 +4,15 @@ using ModelWatch.Checks.Findings;
 namespace ModelWatch.Checks.Policy;
 
 /// <summary>
-/// Turns successive runs' findings into alert decisions per (check, subject). Pure. Per-window tests must persist
+/// Turns successive runs' findings into alert decisions per (check, subject). Pure. Per-run tests must persist
 /// (critical in <see cref="CheckThresholds.PersistenceRequired"/> of the last <see cref="CheckThresholds.PersistenceWindows"/>
-/// evaluated windows; methods.md §3.5.4); sequential and hard findings (CUSUM crossing, lost rank, dead feed, served
-/// mismatch) open at once. An open alert resolves after <see cref="CheckThresholds.ResolveAfterOkWindows"/> evaluated
-/// runs in a row with nothing above ok (hysteresis); a warning keeps it open. By default only critical evidence opens
-/// alerts: warnings are findings, not pages (methods.md §3.5.9). With <see cref="CheckThresholds.WarningAlerts"/>,
-/// persisting warnings (the same count of windows, at warning or above) open a warning alert, which critical evidence
-/// (at once or persisted, as above) escalates. Skipped findings leave the state untouched.
+/// evaluated runs, consecutive runs whatever the windows' overlap); sequential and hard findings (a CUSUM or monitor
+/// crossing, a block of new rows, lost rank, a dead feed, served mismatches) open at once. An open alert resolves after
+/// <see cref="CheckThresholds.ResolveAfterOkWindows"/> evaluated runs in a row with nothing above ok (hysteresis); a
+/// warning keeps it open. By default only critical evidence opens alerts: warnings are findings, not pages. With
+/// <see cref="CheckThresholds.WarningAlerts"/>, persisting warnings (the same count of runs, at warning or above) open a
+/// warning alert, which critical evidence (at once or persisted, as above) escalates. Skipped findings leave the state
+/// untouched.
 /// </summary>
 public static class AlertPolicy
 {
@@ -64,7 +65,7 @@ public static class AlertPolicy
         bool persisted = criticalCount >= t.PersistenceRequired;
         bool critical = immediate == Severity.Critical || persisted;
         bool warned = t.WarningAlerts && elevatedCount >= t.PersistenceRequired;
-        string evidence = string.Create(CultureInfo.InvariantCulture, $"{criticalCount} of the last {recent.Count} windows critical");
+        string evidence = string.Create(CultureInfo.InvariantCulture, $"{criticalCount} of the last {recent.Count} runs critical");
         AlertPolicyState next = state with { Recent = recent };
         if (!state.Open)
         {
@@ -75,9 +76,9 @@ public static class AlertPolicy
 
             if (warned)
             {
-                // The evidence shown is the worst persistent finding: a warning alert is about the per-window tests.
+                // The evidence shown is the worst persistent finding: a warning alert is about the per-run tests.
                 Finding shown = persistent.OrderByDescending(x => x.Severity).First();
-                string reason = string.Create(CultureInfo.InvariantCulture, $"{elevatedCount} of the last {recent.Count} windows at warning or above");
+                string reason = string.Create(CultureInfo.InvariantCulture, $"{elevatedCount} of the last {recent.Count} runs at warning or above");
                 return new AlertDecision { Check = state.Check, Subject = state.Subject, Action = AlertAction.Open, AlertSeverity = Severity.Warning, Evidence = shown, Reason = reason, State = next with { Open = true, ConsecutiveOk = 0 } };
             }
 
@@ -87,7 +88,7 @@ public static class AlertPolicy
         if (worst.Severity == Severity.Critical)
         {
             // Critical evidence that meets the opening rule escalates a warning alert; with warning alerts on, a lone
-            // critical window only refreshes it (without them every open alert is critical, and stays so).
+            // critical run only refreshes it (without them every open alert is critical, and stays so).
             Severity raised = critical || !t.WarningAlerts ? Severity.Critical : Severity.Warning;
             return new AlertDecision { Check = state.Check, Subject = state.Subject, Action = AlertAction.Raise, AlertSeverity = raised, Evidence = worst, Reason = raised == Severity.Critical ? "still critical" : evidence + "; not enough to escalate a warning alert", State = next with { ConsecutiveOk = 0 } };
         }

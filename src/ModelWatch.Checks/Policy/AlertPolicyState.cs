@@ -17,7 +17,7 @@ public sealed record AlertPolicyState
     /// <summary>Baseline the history belongs to; a new baseline clears the history.</summary>
     public string? BaselineFingerprint { get; init; }
 
-    /// <summary>Severities of the most recent evaluated windows from tests that need persistence, oldest first.</summary>
+    /// <summary>Severities of the most recent evaluated runs from tests that need persistence, oldest first.</summary>
     public IReadOnlyList<Severity> Recent { get; init; } = [];
 
     /// <summary>True while an alert is open for this key.</summary>

@@ -95,12 +95,14 @@ internal static class ResidualCusums
         AugmentedFactor merged = RegressionMath.Merge(running, fresh);
         (Finding varianceFinding, CusumSums variance) = Variance(input, state.Variance, running, merged, h, k);
 
-        // After an alarm, rows stay out of the running fit until both sums are back at zero: rows of a shift would pull the
-        // fit towards it, and the shift's end would then look like a new shift the other way. Under no change alarms are
-        // rare, so the inputs stay independent nearly always.
-        bool alarmed = biasFinding.Severity == Severity.Critical || varianceFinding.Severity == Severity.Critical || bias.Alarms > state.Bias.Alarms || variance.Alarms > state.Variance.Alarms;
-        bool quarantined = alarmed || (state.Quarantined && (bias.Peak > 0.0 || variance.Peak > 0.0));
-        return ([biasFinding, varianceFinding], state with { Running = StoredFactor.Of(state.Quarantined || alarmed ? running : merged), Bias = bias, Variance = variance, Quarantined = quarantined });
+        bool alarmed = bias.Alarms > state.Bias.Alarms || variance.Alarms > state.Variance.Alarms;
+        return ([biasFinding, varianceFinding], state with
+        {
+            Running = StoredFactor.Of(state.Quarantined || alarmed ? running : merged),
+            Bias = bias,
+            Variance = variance,
+            Quarantined = Quarantine.After(state.Quarantined, alarmed, [bias, variance]),
+        });
     }
 
     private static (Finding Finding, CusumSums Sums) Variance(CheckInput input, CusumSums sums, AugmentedFactor before, AugmentedFactor after, double h, double k)

@@ -13,16 +13,16 @@ public sealed class BaselineBuilderOptions
 
     /// <summary>
     /// Reference rows kept in the seeded reservoir (residual sample, feature samples, bins, leverages).
-    /// Default 5,000, the most allowed (methods.md §2.5 suggests up to 10k; the stored document stays under ~1 MB).
+    /// Default 5,000, the most allowed (enough for the distribution tests; the stored document stays under ~1 MB).
     /// </summary>
     [Range(20, MaximumReservoirSize)]
     public int ReservoirSize { get; init; } = MaximumReservoirSize;
 
-    /// <summary>Quantile bins per feature for the population stability index. Default 10 (deciles, methods.md §7.1).</summary>
+    /// <summary>Quantile bins per feature for the population stability index. Default 10 (deciles, common practice).</summary>
     [Range(2, 100)]
     public int Bins { get; init; } = 10;
 
-    /// <summary>Quantile of reference leverages that sets the extrapolation threshold. Default 0.99 (methods.md §7.3).</summary>
+    /// <summary>Quantile of reference leverages that sets the extrapolation threshold. Default 0.99 (common practice).</summary>
     [Range(0.5, 0.9999)]
     public double LeverageQuantile { get; init; } = 0.99;
 }

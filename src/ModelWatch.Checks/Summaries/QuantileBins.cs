@@ -2,7 +2,7 @@ using ModelWatch.Numerics.Statistics;
 
 namespace ModelWatch.Checks.Summaries;
 
-/// <summary>Reference quantile bins of one feature's sample (deciles by default, methods.md §7.1).</summary>
+/// <summary>Reference quantile bins of one feature's sample (deciles by default).</summary>
 internal static class QuantileBins
 {
     /// <summary>Type-7 quantile edges at b/B (ties merged, so a discrete feature gets fewer bins) and the sample's shares.</summary>

@@ -12,7 +12,7 @@ public sealed class WindowSummaryOptions
     [Range(20, 100_000)]
     public int ReservoirSize { get; init; } = 5_000;
 
-    /// <summary>Largest autocorrelation lag tracked for Ljung–Box. Default 10 (methods.md §5.6, common practice).</summary>
+    /// <summary>Largest autocorrelation lag tracked for Ljung–Box. Default 10 (common practice).</summary>
     [Range(1, 50)]
     public int MaximumLag { get; init; } = 10;
 

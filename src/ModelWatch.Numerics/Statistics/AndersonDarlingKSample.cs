@@ -47,7 +47,7 @@ public static class AndersonDarlingKSample
 
     /// <summary>
     /// Approximate p-value of the standardized statistic T for k samples (the table below is typed from memory of
-    /// SciPy's source; it reproduces SciPy 1.10.1's p-values for the methods.md §8.4 example): the quadratic in T fitted to
+    /// SciPy's source; it reproduces SciPy 1.10.1's p-values for Scholz &amp; Stephens' paper-smoothness example): the quadratic in T fitted to
     /// log(significance) at Scholz &amp; Stephens' (1987) interpolated critical values
     /// <c>b₀ + b₁/√(k−1) + b₂/(k−1)</c>, the rule SciPy's <c>anderson_ksamp</c> uses (extrapolated beyond 0.001–0.25).
     /// </summary>

@@ -10,9 +10,10 @@ using ModelWatch.Numerics.Regression;
 namespace ModelWatch.Checks.Tests.Evaluation;
 
 /// <summary>
-/// The deployed 1970–81 savings model scored on 1982–95 (Gujarati, Basic Econometrics, Table 8.9 / Gujarati &amp;
-/// Porter Table 8.10; data and expected values in methods.md §8.1, §2, §5.1 and §6.4, tagged [L] for the published
-/// Chow example and [C] for values computed there with R 4.2.2 / SciPy 1.10.1).
+/// The deployed 1970–81 savings model scored on 1982–95: US savings on disposable income (Gujarati &amp; Porter 2009,
+/// Basic Econometrics 5e, Table 8.10 and the Chow test example of §8.7; the 1982 and 1995 rows from memory, confirmed
+/// by the book's RSS values and F = 10.69). Values beyond the book's are computed with R 4.2.2 and lmtest 0.9-40 by
+/// tests/ModelWatch.Numerics.Tests/TestData/References/statistics.R (statistics-r.out beside it).
 /// </summary>
 public sealed class GujaratiSavingsTests
 {
@@ -50,12 +51,12 @@ public sealed class GujaratiSavingsTests
     {
         CheckResult result = CoefficientsCheck.Instance.Run(Input());
 
-        // Chow F(2,22) = 10.690059, p = 5.7076e-4 [C; published F = 10.69, L: Gujarati & Porter 5e §8.7].
+        // Chow F(2,22) = 10.690059, p = 5.7076e-4 (statistics-r.out); Gujarati & Porter 2009, §8.7, print F = 10.69.
         Finding chow = result.Findings.Single(f => f.Statistic == "chow");
         Assert.Equal(10.690059, chow.Value!.Value, 6);
         Assert.Equal(5.7076e-4, chow.PValue!.Value, 8);
 
-        // Wald with both covariances W = 31.26770, p(χ²₂) = 1.623e-7 [C].
+        // Wald with both covariances W = 31.26770, p(χ²₂) = 1.623e-7 (statistics-r.out).
         Finding wald = result.Findings.Single(f => f.Statistic == "wald");
         Assert.Equal(31.26770, wald.Value!.Value, 5);
         Assert.Equal(1.623e-7, wald.Details["chi2_p_value"], 10);
@@ -69,8 +70,8 @@ public sealed class GujaratiSavingsTests
         CheckResult result = ErrorCheck.Instance.Run(Input());
         Finding f = Assert.Single(result.Findings);
 
-        // methods.md §6.4 [C]: MSE_dep 13455.6676 = 714.6586 + 9117.4040 + 3623.6049; RMSE 115.99857; MAE 99.03827;
-        // bias −95.48510; R²_OS −0.16183; Chow predictive F(14,10) = 8.588587, p = 8.308e-4 (§2.2).
+        // Computed in statistics-r.out: MSE_dep 13455.6676 = 714.6586 + 9117.4040 + 3623.6049; RMSE 115.99857;
+        // MAE 99.03827; bias −95.48510; R²_OS −0.16183; Chow predictive F(14,10) = 8.588587, p = 8.308e-4.
         Assert.Equal(13455.6676, f.Details["mse_deployed"], 3);
         Assert.Equal(714.6586, f.Details["mse_noise"], 3);
         Assert.Equal(9117.4040, f.Details["mse_level_drift"], 3);
@@ -90,7 +91,7 @@ public sealed class GujaratiSavingsTests
     {
         CheckResult result = ResidualsCheck.Instance.Run(Input());
 
-        // methods.md §5.1 [C]: ē0 = −95.48510, t = −4.46932, p = 0.00120 on 10 df.
+        // Computed in statistics-r.out: ē0 = −95.48510, t = −4.46932, p = 0.00120 on 10 df.
         Finding bias = result.Findings.Single(f => f.Statistic == "bias_t");
         Assert.Equal(-4.46932, bias.Value!.Value, 5);
         Assert.Equal(0.00120, bias.PValue!.Value, 5);
@@ -100,11 +101,11 @@ public sealed class GujaratiSavingsTests
     [Fact]
     public void Every_new_row_is_an_extrapolation()
     {
-        // methods.md §7.3 [C]: leverages of the 1982–95 rows against the 1970–81 design run from 0.5033 to 6.3841.
+        // statistics-r.out: leverages of the 1982–95 rows against the 1970–81 design run from 0.5033 to 6.3841.
         (BaselineReference baseline, WindowSummary window) = Build();
         Assert.Equal(6.3841, window.MaximumLeverage, 4);
 
-        // 13 of the 14 lie beyond every reference row's leave-one-out leverage as well.
+        // 13 of the 14 lie beyond every reference row's leave-one-out leverage as well (same file).
         Assert.Equal(13, window.LeverageAboveReferenceMaximumCount);
     }
 }

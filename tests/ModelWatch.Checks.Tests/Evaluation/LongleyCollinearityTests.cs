@@ -7,7 +7,11 @@ using ModelWatch.Numerics.Regression;
 
 namespace ModelWatch.Checks.Tests.Evaluation;
 
-/// <summary>Longley (NIST StRD units; methods.md §8.3) VIFs and Belsley–Kuh–Welsch diagnostics (methods.md §4.1–4.2, [C]).</summary>
+/// <summary>
+/// Longley (1967, JASA 62:819–841; NIST StRD units) VIFs and Belsley, Kuh &amp; Welsch (1980) diagnostics, against
+/// values computed with R 4.2.2 and car 3.1-1 by tests/ModelWatch.Numerics.Tests/TestData/References/statistics.R
+/// (statistics-r.out beside it).
+/// </summary>
 public sealed class LongleyCollinearityTests
 {
     private static readonly double[][] Rows =
@@ -38,7 +42,7 @@ public sealed class LongleyCollinearityTests
     [Fact]
     public void Condition_indices_and_proportions_match_Belsley_Kuh_Welsch()
     {
-        // methods.md §4.2 [C]: η = 1, 9.1417, 12.2557, 25.3366, 230.4239, 1048.0803, 43275.04; the last component carries
+        // statistics-r.out: η = 1, 9.1417, 12.2557, 25.3366, 230.4239, 1048.0803, 43275.04; the last component carries
         // π = 1.000 (intercept), 1.000 (YEAR), 0.689 (UNEMP), 0.655 (GNP).
         NearDependency d = NearDependency.Of(Factor());
         double[] expected = [1, 9.1417, 12.2557, 25.3366, 230.4239, 1048.0803, 43275.04];
@@ -89,7 +93,7 @@ public sealed class LongleyCollinearityTests
 
         CheckResult result = CollinearityCheck.Instance.Run(input with { Window = repeated.Build() });
 
-        // methods.md §4.1 [C; car::vif and statsmodels agree]: 135.532, 1788.513, 33.619, 3.589, 399.151, 758.981.
+        // car 3.1-1 vif (statistics-r.out): 135.532, 1788.513, 33.619, 3.589, 399.151, 758.981.
         var expected = new Dictionary<string, double> { ["GNPDEFL"] = 135.532, ["GNP"] = 1788.513, ["UNEMP"] = 33.619, ["ARMED"] = 3.589, ["POP"] = 399.151, ["YEAR"] = 758.981 };
         foreach ((string feature, double vif) in expected)
         {

@@ -69,9 +69,11 @@ public sealed class AcceleratedClockTests
         var clock = new AcceleratedClock(Start, 1_000_000, end);
         int lateFired = 0;
         var earlyFired = new TaskCompletionSource(TaskCreationOptions.RunContinuationsAsynchronously);
-        clock.Run();
+        // Both timers are armed before the clock flows: at this speed its whole hour lasts 3.6 ms of real time, less than
+        // a busy machine may take between two statements, so a timer armed afterwards could already be due past the end.
         await using ITimer late = clock.CreateTimer(_ => Interlocked.Increment(ref lateFired), null, TimeSpan.FromHours(2), Timeout.InfiniteTimeSpan);
         await using ITimer early = clock.CreateTimer(_ => earlyFired.TrySetResult(), null, TimeSpan.FromMinutes(30), Timeout.InfiniteTimeSpan);
+        clock.Run();
         await earlyFired.Task.WaitAsync(TimeSpan.FromSeconds(30));
         while (clock.Flowing)
         {

@@ -2,12 +2,15 @@ using ModelWatch.Numerics.Regression;
 
 namespace ModelWatch.Numerics.Tests.Regression;
 
-/// <summary>Longley (NIST StRD units) collinearity diagnostics against the values in methods.md §4.1 and §4.2.</summary>
+/// <summary>
+/// Longley (1967, JASA 62:819–841; NIST StRD units) collinearity diagnostics against values computed with R 4.2.2
+/// (TestData/References/statistics-r.out).
+/// </summary>
 public sealed class CollinearityDiagnosticsTests
 {
     /// <summary>
-    /// VIFs of Longley, Employed ~ all: the widely reported values, reproduced with R car::vif and statsmodels
-    /// (methods.md §4.1, tag [C]); printed to three decimals, so compared to 5e-4 absolute.
+    /// VIFs of Longley, Employed ~ all: the widely reported values, reproduced with car 3.1-1 <c>vif</c>
+    /// (TestData/References/statistics-r.out); quoted to three decimals, so compared to 5e-4 absolute.
     /// </summary>
     [Fact]
     public void Longley_variance_inflation_factors_match_published_values()
@@ -23,8 +26,9 @@ public sealed class CollinearityDiagnosticsTests
     }
 
     /// <summary>
-    /// Belsley–Kuh–Welsch condition indices (unit-length columns, intercept included, not centred):
-    /// 1, 9.1417, 12.2557, 25.3366, 230.4239, 1048.0803, 43275.04 (methods.md §4.2, tag [C]).
+    /// Belsley, Kuh &amp; Welsch (1980, Regression Diagnostics, Wiley) condition indices (unit-length columns,
+    /// intercept included, not centred): 1, 9.1417, 12.2557, 25.3366, 230.4239, 1048.0803, 43275.04, from the SVD in
+    /// TestData/References/statistics.R (output in statistics-r.out).
     /// </summary>
     [Fact]
     public void Longley_scaled_condition_indices_match_published_values()

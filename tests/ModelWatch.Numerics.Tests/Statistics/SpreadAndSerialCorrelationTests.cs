@@ -7,9 +7,10 @@ namespace ModelWatch.Numerics.Tests.Statistics;
 public sealed class SpreadAndSerialCorrelationTests
 {
     [Fact]
-    public void Brown_Forsythe_on_labs_A_and_D_matches_R_and_SciPy()
+    public void Brown_Forsythe_on_labs_A_and_D_matches_R()
     {
-        // methods.md §5.2 / §8.4 [C: car::leveneTest(center = median), scipy.stats.levene]: F(1,14) = 0.41883, p = 0.52799.
+        // Brown & Forsythe (1974) on Scholz–Stephens labs A and D: F(1,14) = 0.41883, p = 0.52799 with R 4.2.2
+        // car 3.1-1 leveneTest(center = median) (TestData/References/statistics-r.out).
         StatisticalTest result = BrownForsythe.TwoSample(ReferenceData.LabA, ReferenceData.LabD);
         Assert.Equal(0.41883, result.Statistic, 5);
         Assert.Equal(0.52799, result.PValue, 5);
@@ -17,10 +18,10 @@ public sealed class SpreadAndSerialCorrelationTests
     }
 
     [Fact]
-    public void Ljung_Box_and_Box_Pierce_on_the_lh_series_match_R_and_statsmodels()
+    public void Ljung_Box_and_Box_Pierce_on_the_lh_series_match_R()
     {
-        // methods.md §5.6 / §8.6 [C, R Box.test and statsmodels agree]: Q(1) = 16.913792; Q(10) = 25.350930
-        // (p = 0.004719); Box–Pierce(10) = 23.094810.
+        // R 4.2.2 Box.test (statistics-r.out): Q(1) = 16.913792; Q(10) = 25.350930 (p = 0.004719);
+        // Box–Pierce(10) = 23.094810.
         Assert.Equal(16.913792, Autocorrelation.LjungBox(ReferenceData.Lh, 1).Statistic, 6);
         StatisticalTest q10 = Autocorrelation.LjungBox(ReferenceData.Lh, 10);
         Assert.Equal(25.350930, q10.Statistic, 6);
@@ -31,11 +32,11 @@ public sealed class SpreadAndSerialCorrelationTests
     [Fact]
     public void Durbin_Watson_of_the_pooled_savings_regression_matches_lmtest()
     {
-        // methods.md §5.6 / §8.1 [C, lmtest::dwtest]: pooled Gujarati savings regression d = 0.859717.
+        // lmtest 0.9-40 dwtest (statistics-r.out): pooled Gujarati savings regression d = 0.859717.
         double[] residuals = OlsResiduals(ReferenceData.SavingsX, ReferenceData.SavingsY);
         Assert.Equal(0.859717, Autocorrelation.DurbinWatson(residuals), 6);
 
-        // Same residuals [C, R Box.test(type = "Ljung")]: LB(5) = 10.19276, p = 0.06995.
+        // Same residuals, R Box.test(type = "Ljung-Box") (statistics-r.out): LB(5) = 10.19276, p = 0.06995.
         StatisticalTest lb = Autocorrelation.LjungBox(residuals, 5);
         Assert.Equal(10.19276, lb.Statistic, 5);
         Assert.Equal(0.06995, lb.PValue, 5);
@@ -44,7 +45,8 @@ public sealed class SpreadAndSerialCorrelationTests
     [Fact]
     public void Koenker_and_Breusch_Pagan_on_Gujarati_table_11_3_match_the_textbook_and_lmtest()
     {
-        // methods.md §5.5 / §8.2 [C; C=M with Gujarati's Θ = 5.2140]: BP = 5.214011, Koenker LM = 5.272187 (p = 0.02167).
+        // lmtest 0.9-40 bptest (statistics-r.out): BP = 5.214011 (studentize = FALSE; Gujarati's Θ = 5.2140, from
+        // memory), Koenker LM = 5.272187 (p = 0.02167).
         double[] residuals = OlsResiduals(ReferenceData.ConsumptionX, ReferenceData.ConsumptionY);
         double[][] z = ReferenceData.ConsumptionX.Select(x => new[] { x }).ToArray();
         StatisticalTest bp = Heteroscedasticity.BreuschPagan(z, residuals);
@@ -67,8 +69,9 @@ public sealed class SpreadAndSerialCorrelationTests
     [Fact]
     public void Quantiles_match_standard_tables()
     {
-        // Normal 97.5 % point 1.959964 and χ²₉ 99 % point 21.666 (standard tables, from memory; the latter also
-        // reproduces methods.md §7.1 [C]: 0.0455 = (1/10000 + 1/500)·χ²₉,0.99).
+        // Normal 97.5 % point 1.959964 and χ²₉ 99 % point 21.666 (standard tables; R qnorm / qchisq in
+        // TestData/References/statistics-r.out). PSI's null 99 % point for 10 bins, N = 10,000 reference and M = 500
+        // new rows: (1/N + 1/M)·χ²₉,0.99 = 0.0455 (same file).
         Assert.Equal(1.959964, StandardDistributions.NormalQuantile(0.975), 6);
         Assert.Equal(1.959964, StandardDistributions.NormalUpperQuantile(0.025), 6);
         Assert.Equal(21.666, StandardDistributions.ChiSquareUpperQuantile(0.01, 9), 3);
