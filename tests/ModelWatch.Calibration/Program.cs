@@ -2,7 +2,7 @@ using System.Diagnostics;
 using System.Globalization;
 using ModelWatch.Calibration;
 
-// dotnet run -c Release --project tests/ModelWatch.Calibration -- [--model-years 20] [--trials 100] [--rows-per-hour 60] [--ratios 1,7,24]
+// dotnet run -c Release --project tests/ModelWatch.Calibration -- [--model-years 20] [--trials 100] [--rows-per-hour 60] [--ratios 1,7,24] [--warmup-runs N]
 // dotnet run -c Release --project tests/ModelWatch.Calibration -- --constants     (the budget's derived constants, for docs/checks.md)
 if (args.Contains("--constants"))
 {
@@ -16,6 +16,7 @@ int Option(string name, int fallback) => options.TryGetValue(name, out string? v
 int modelYears = Option("model-years", 20);
 int trials = Option("trials", 100);
 var setup = new CalibrationSetup(RowsPerHour: Option("rows-per-hour", 60));
+int? warmup = options.ContainsKey("warmup-runs") ? Option("warmup-runs", 0) : null;
 int[] ratios = options.TryGetValue("ratios", out string? r) ? [.. r.Split(',').Select(x => int.Parse(x, CultureInfo.InvariantCulture))] : [1, 7, 24];
 var cadences = Cadence.All.Where(c => ratios.Contains(c.Ratio)).ToList();
 var clock = Stopwatch.StartNew();
@@ -38,7 +39,7 @@ foreach (Cadence cadence in cadences)
 {
     foreach (Scenario scenario in Scenario.All)
     {
-        Console.WriteLine(DetectionSimulation.Run(setup, cadence, scenario, trials).Row(cadence.Every));
+        Console.WriteLine(DetectionSimulation.Run(setup, cadence, scenario, trials, warmupRuns: warmup).Row(cadence.Every));
     }
 }
 

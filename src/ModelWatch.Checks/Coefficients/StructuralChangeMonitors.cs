@@ -20,8 +20,10 @@ namespace ModelWatch.Checks.Coefficients;
 /// </list>
 /// The moving-window boundaries <c>c·√(2·log₊ x)</c> take c from the simulated null of the run-end design (window h,
 /// r runs a window, N runs an epoch; <see cref="MovingWindowNull"/>); the OLS-CUSUM boundary takes Chu, Stinchcombe &amp;
-/// White's c. Each monitor's size over an epoch is its share of the channel's yearly budget, the moving-estimates
-/// components splitting theirs (Bonferroni); each epoch is a year by default, after which the monitors restart.
+/// White's c. An epoch lasts until the monitoring time reaches e (at most a year), so the moving-window boundary stays
+/// flat and a late change is seen as fast as an early one; then the monitors restart. Each monitor's size over an epoch
+/// is the channel's yearly share times the epoch's part of a year, the moving-estimates components splitting theirs
+/// (Bonferroni).
 /// A crossing pages at once when the move also matters for predictions on the newest rows: the named coefficient's own
 /// move for a moving-estimates component, the level shift for the OLS monitors (<see cref="PredictiveImpact"/>).
 /// </summary>
@@ -40,9 +42,12 @@ internal static class StructuralChangeMonitors
             return ([Skip(check, "moving_estimates", SkipReasons.BaselineIncomplete, "the baseline does not say how many rows it was fitted on, so the monitors have no history length")], state);
         }
 
+        long k = input.Window.RowsAccepted;
+        double h = k / n;
+        MovingWindowDesign design = Design(t, h);
+
         // A new epoch restarts the monitors' clock and the OLS-CUSUM sum.
-        int epochRuns = FalseAlarmBudget.EpochRuns(t);
-        if (state.EpochRuns >= epochRuns)
+        if (state.EpochRuns >= design.Evaluations)
         {
             state = state with { Epoch = state.Epoch + 1, EpochRuns = 0, EpochRows = 0, CusumRows = 0, CusumErrorSum = 0.0 };
         }
@@ -61,18 +66,16 @@ internal static class StructuralChangeMonitors
         double floor = input.Setting(CoefficientsCheck.DriftImpactFloor);
         bool levelPractical = recent is { } r && r.Level >= floor;
         string levelImpact = CoefficientsCheck.Impact(recent, -1, floor);
-        long k = input.Window.RowsAccepted;
         var slopes = Enumerable.Range(0, layout.ParameterCount).Where(j => !(layout.Intercept && j == 0)).ToList();
-        double h = k / n;
         double spread = MovingWindowNull.Spread(h);
-        MovingWindowNull? nullDistribution = k > layout.ParameterCount ? MovingWindowNull.For(Design(t, h)) : null;
-        double levelAlpha = FalseAlarmBudget.EpochAlpha(t, monitors: 2);
+        MovingWindowNull? nullDistribution = k > layout.ParameterCount ? MovingWindowNull.For(design) : null;
+        double levelAlpha = FalseAlarmBudget.EpochAlpha(t, design.Evaluations, monitors: 2);
         if (nullDistribution is not null && input.Window.Factor is { } window
             && MovingEstimates.Evaluate(window, b0, s, n) is { } me)
         {
             // The critical value is simulated per unit of the process's spread and scaled to this run's window, so a window
             // holding more or fewer rows than usual keeps its size.
-            double c = nullDistribution.StandardizedCriticalValue(FalseAlarmBudget.EpochAlpha(t, monitors: Math.Max(1, slopes.Count))) * spread;
+            double c = nullDistribution.StandardizedCriticalValue(FalseAlarmBudget.EpochAlpha(t, design.Evaluations, monitors: Math.Max(1, slopes.Count))) * spread;
             double boundary = MonitoringBoundary.MovingWindow(c, x);
             foreach (int j in slopes)
             {
@@ -127,13 +130,13 @@ internal static class StructuralChangeMonitors
     /// <summary>
     /// The run-end design of the moving-window monitors: the window fraction rounded down to a grid of sixth powers of
     /// two (12 % apart, so a model's runs share one simulation), runs a window, runs an epoch. Rounding h down shrinks
-    /// the history's share of the process and the horizon, both of which can only raise the critical value.
+    /// the history's share of the process and lengthens the epoch, both of which can only raise the critical value.
     /// </summary>
     public static MovingWindowDesign Design(CheckThresholds thresholds, double window)
     {
         int perWindow = Math.Max(1, (int)Math.Round(thresholds.WindowLength / thresholds.Cadence));
         double grid = Math.Pow(2.0, Math.Floor(6.0 * Math.Log2(window)) / 6.0);
-        return new MovingWindowDesign(grid, perWindow, FalseAlarmBudget.EpochRuns(thresholds), OverlapsHistory: false);
+        return new MovingWindowDesign(grid, perWindow, FalseAlarmBudget.EpochRuns(thresholds, grid, perWindow), OverlapsHistory: false);
     }
 
     private static Finding Level(string statistic, double value, double boundary, double pValue, bool practical, string impact, string rows)

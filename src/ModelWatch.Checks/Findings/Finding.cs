@@ -47,8 +47,9 @@ public sealed record Finding
     public string? SkipReason { get; init; }
 
     /// <summary>
-    /// False for evidence that needs no repetition before an alert opens (a CUSUM crossing, lost rank,
-    /// a quiet source, served predictions that disagree); true for per-window tests (2 of 3 by default).
+    /// False for evidence that needs no repetition before an alert opens (a CUSUM or monitor crossing, a block of new
+    /// rows, lost rank, a quiet source, served predictions that disagree); true for per-run tests on the window (2 of the
+    /// last 3 runs by default).
     /// </summary>
     public bool RequiresPersistence { get; init; } = true;
 }

@@ -22,12 +22,6 @@ public sealed record CheckThresholds
     /// <summary>Length of the window each run reads (from the spec's window). Default 24 hours.</summary>
     public TimeSpan WindowLength { get; init; } = TimeSpan.FromHours(24);
 
-    /// <summary>
-    /// Horizon, in days, of one epoch of the structural-change monitors: their boundaries are set so that with no change
-    /// they cross with the channel's yearly share within an epoch, and they restart when it ends. Default 365.2425 (a year).
-    /// </summary>
-    public double MonitoringHorizonDays { get; init; } = 365.2425;
-
     /// <summary>Overrides every budgeted α and monitor size (calibration simulations only). Default none.</summary>
     public double? AlphaOverride { get; init; }
 

@@ -12,8 +12,8 @@ namespace ModelWatch.Checks.Policy;
 /// year: Bonferroni over the runs of a model-year, valid under any dependence between overlapping windows;</item>
 /// <item>a CUSUM steps on the rows new since the previous run (independent increments), with h whose in-control ARL is
 /// <c>K·N_runs/F*</c> runs (Brook–Evans Markov chain);</item>
-/// <item>a structural-change monitor crosses its boundary with probability <c>F*/K</c> within an epoch of one year, and
-/// restarts when the epoch ends.</item>
+/// <item>a structural-change monitor crosses its boundary within an epoch with probability <c>F*/K</c> times the epoch's part
+/// of a year, and restarts when the epoch ends.</item>
 /// </list>
 /// Several tests sharing a channel split its share equally (Bonferroni).
 /// </summary>
@@ -74,19 +74,29 @@ public static class FalseAlarmBudget
         return Thresholds.GetOrAdd((target, thresholds.CusumReference, oneSided), key => PageCusum.ThresholdForArl(key.Arl, key.K, key.OneSided));
     }
 
-    /// <summary>Runs in one epoch of the structural-change monitors.</summary>
-    public static int EpochRuns(CheckThresholds thresholds)
+    /// <summary>
+    /// Runs in one epoch of the moving-window monitors, whose window holds <paramref name="window"/> history lengths and
+    /// spans <paramref name="runsPerWindow"/> runs: until the monitoring time <c>1 + rows/n</c> reaches e, so the
+    /// boundary <c>c·√(2·log₊ x)</c> stays flat and a change late in the epoch is seen as soon as one early in it; at most
+    /// a year of runs.
+    /// </summary>
+    public static int EpochRuns(CheckThresholds thresholds, double window, int runsPerWindow)
     {
         ArgumentNullException.ThrowIfNull(thresholds);
-        return Math.Max(1, (int)Math.Round(thresholds.MonitoringHorizonDays * 24.0 / thresholds.Cadence.TotalHours));
+        double rowsPerRun = window / runsPerWindow;
+        double runs = Math.Ceiling((Math.E - 1.0) / rowsPerRun);
+        return (int)Math.Clamp(runs, 1.0, Math.Round(RunsPerYear(thresholds)));
     }
 
-    /// <summary>Size, over one epoch, of one of <paramref name="monitors"/> monitors sharing a channel.</summary>
-    public static double EpochAlpha(CheckThresholds thresholds, int monitors = 1)
+    /// <summary>
+    /// Size, over one epoch of <paramref name="epochRuns"/> runs, of one of <paramref name="monitors"/> monitors sharing a
+    /// channel: the channel's yearly share times the epoch's part of a year (a union bound over the year's epochs).
+    /// </summary>
+    public static double EpochAlpha(CheckThresholds thresholds, int epochRuns, int monitors = 1)
     {
         ArgumentNullException.ThrowIfNull(thresholds);
+        ArgumentOutOfRangeException.ThrowIfLessThan(epochRuns, 1);
         ArgumentOutOfRangeException.ThrowIfLessThan(monitors, 1);
-        double years = thresholds.MonitoringHorizonDays * 24.0 / HoursPerYear;
-        return thresholds.AlphaOverride ?? Math.Min(0.5, ChannelShare(thresholds) * years / monitors);
+        return thresholds.AlphaOverride ?? Math.Min(0.5, ChannelShare(thresholds) * Math.Min(1.0, epochRuns / RunsPerYear(thresholds)) / monitors);
     }
 }

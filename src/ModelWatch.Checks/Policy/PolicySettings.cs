@@ -4,7 +4,7 @@ namespace ModelWatch.Checks.Policy;
 
 /// <summary>
 /// The model-wide settings a spec may write under any check (they apply to the whole model): the false-alarm budget,
-/// the monitors' horizon, the CUSUMs' k, persistence, hysteresis and warning alerts.
+/// the CUSUMs' k and h, persistence, hysteresis and warning alerts.
 /// </summary>
 public static class PolicySettings
 {
@@ -13,9 +13,6 @@ public static class PolicySettings
 
     /// <summary>Channels the budget is split over.</summary>
     public static readonly CheckSetting AlarmChannels = new() { Name = "alarm_channels", Kind = SettingKind.WholeNumber, Default = 0, Minimum = 1, Maximum = 1000, Description = "alarm channels the budget is split over (default: the registered checks' channels)" };
-
-    /// <summary>Epoch of the structural-change monitors, in days.</summary>
-    public static readonly CheckSetting MonitoringHorizonDays = new() { Name = "monitoring_horizon_days", Default = 365.2425, Minimum = 1, Maximum = 3653, Description = "days in one epoch of the structural-change monitors, after which they restart" };
 
     /// <summary>Warning level.</summary>
     public static readonly CheckSetting WarningAlpha = new() { Name = "warning_alpha", Default = 0.01, Minimum = 1e-12, Maximum = 0.5, Description = "significance level of a warning (no practical floor)" };
@@ -40,7 +37,7 @@ public static class PolicySettings
 
     /// <summary>Every model-wide setting.</summary>
     public static IReadOnlyList<CheckSetting> All { get; } =
-        [FalseAlarmsPerYear, AlarmChannels, MonitoringHorizonDays, WarningAlpha, CusumReference, CusumThreshold, PersistenceWindows, PersistenceRequired, WarningAlerts, ResolveAfterOkWindows];
+        [FalseAlarmsPerYear, AlarmChannels, WarningAlpha, CusumReference, CusumThreshold, PersistenceWindows, PersistenceRequired, WarningAlerts, ResolveAfterOkWindows];
 
     /// <summary>The thresholds with one model-wide setting applied.</summary>
     public static CheckThresholds Apply(CheckThresholds thresholds, CheckSetting setting, double value)
@@ -51,7 +48,6 @@ public static class PolicySettings
         {
             "false_alarms_per_year" => thresholds with { FalseAlarmsPerYear = value },
             "alarm_channels" => thresholds with { AlarmChannels = (int)value },
-            "monitoring_horizon_days" => thresholds with { MonitoringHorizonDays = value },
             "warning_alpha" => thresholds with { WarningAlpha = value },
             "cusum_reference" => thresholds with { CusumReference = value },
             "cusum_threshold" => thresholds with { CusumThreshold = value },

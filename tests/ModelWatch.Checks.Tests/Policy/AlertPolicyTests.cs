@@ -133,9 +133,13 @@ public sealed class AlertPolicyTests
         Assert.InRange(FalseAlarmBudget.CusumThreshold(new CheckThresholds()), 10.5, 12.0);
         Assert.True(FalseAlarmBudget.CusumThreshold(new CheckThresholds(), oneSided: true) < FalseAlarmBudget.CusumThreshold(new CheckThresholds()));
 
-        // The monitors' epoch is a year of runs, with the channel's yearly share as its size.
-        Assert.Equal(8766, FalseAlarmBudget.EpochRuns(new CheckThresholds()));
-        Assert.Equal(365, FalseAlarmBudget.EpochRuns(new CheckThresholds { Cadence = TimeSpan.FromDays(1) }));
-        Assert.Equal(1.0 / 19, FalseAlarmBudget.EpochAlpha(new CheckThresholds()), 6);
+        // A monitor's epoch lasts until e − 1 history lengths of new rows have come: a 7-day window read daily on a 30-day
+        // baseline (h = 7/30, 7 runs a window) gives 52 daily runs; at most a year of runs; its size is the channel's
+        // yearly share times the epoch's part of the year.
+        var daily = new CheckThresholds { Cadence = TimeSpan.FromDays(1) };
+        Assert.Equal(52, FalseAlarmBudget.EpochRuns(daily, 7.0 / 30.0, 7));
+        Assert.Equal(365, FalseAlarmBudget.EpochRuns(daily, 0.001, 1));
+        Assert.Equal(52 / FalseAlarmBudget.RunsPerYear(daily) / 19, FalseAlarmBudget.EpochAlpha(daily, 52), 12);
+        Assert.Equal(1.0 / 19 / 5, FalseAlarmBudget.EpochAlpha(daily, 400, monitors: 5), 12);
     }
 }
