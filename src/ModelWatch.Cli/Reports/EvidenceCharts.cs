@@ -70,7 +70,7 @@ internal static class EvidenceCharts
         double[] xs = [.. rows.Select(x => Time(x.Run))];
         double sRef = Math.Sqrt(rows[^1].F!.Detail("mse_reference") ?? double.NaN);
         (double lo, double hi) = Range(rows.Select(x => x.F!.Detail("rmse")!.Value).Append(sRef).Append(0));
-        var rmse = new SvgChart("deployed RMSE per tested window", xs.Min(), xs.Max(), lo, hi);
+        var rmse = new SvgChart("deployed RMSE of each run's window", xs.Min(), xs.Max(), lo, hi);
         rmse.Line([.. rows.Select((x, i) => (xs[i], x.F!.Detail("rmse")!.Value))], ChartPalette.Refit, "deployed RMSE");
         rmse.Reference(sRef, ChartPalette.Baseline, "baseline residual SD");
         rmse.Marks([.. rows.Select((x, i) => (X: xs[i], Y: x.F!.Detail("rmse")!.Value, C: x.F!.Severity == "critical")).Where(p => p.C).Select(p => (p.X, p.Y))], ChartPalette.Critical, "critical");
