@@ -17,6 +17,7 @@ namespace ModelWatch.Checks.Tests.Evaluation;
 public sealed class CheckBehaviourTests
 {
     private static readonly DateTimeOffset Start = new(2026, 1, 1, 0, 0, 0, TimeSpan.Zero);
+    private static readonly JsonSerializerOptions SnakeCase = new() { PropertyNamingPolicy = JsonNamingPolicy.SnakeCaseLower };
 
     [Fact]
     public void Too_few_rows_skip_every_check_with_insufficient_data()
@@ -124,6 +125,22 @@ public sealed class CheckBehaviourTests
         ResidualsState memory = result.State.Read<ResidualsState>();
         Assert.Equal(1200, memory.Running!.Count);
         Assert.True(memory.Bias.Upper < 7.0);
+    }
+
+    [Fact]
+    public void A_state_stored_by_the_version_before_every_run_was_tested_starts_afresh()
+    {
+        var model = new SyntheticModel(seed: 34, features: 2);
+        BaselineReference baseline = model.Baseline(1000);
+
+        // What that version stored for the residuals check (snake_case, as the daemon writes state documents).
+        string stored = "{\"schema_version\":1,\"baseline_fingerprint\":\"" + baseline.Fingerprint + "\",\"cusum_upper\":9.5,\"cusum_runs\":40,\"sequential_row_count\":99999}";
+        CheckState old = JsonSerializer.Deserialize<CheckState>(stored, SnakeCase)!;
+        CheckResult result = ResidualsCheck.Instance.Run(new CheckInput { Baseline = baseline, Window = model.Window(baseline, 200), WindowStart = Start, WindowEnd = Start.AddHours(1), State = old });
+
+        Assert.Equal(CheckState.CurrentSchemaVersion, result.State.SchemaVersion);
+        Assert.Equal(1200, result.State.Read<ResidualsState>().Running!.Count);
+        Assert.True(result.State.Read<ResidualsState>().Bias.Upper < 9.5);
     }
 
     [Fact]
