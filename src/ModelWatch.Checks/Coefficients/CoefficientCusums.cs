@@ -53,8 +53,8 @@ internal static class CoefficientCusums
         double s = baseline.ResidualStandardDeviation;
         double h = FalseAlarmBudget.CusumThreshold(input.Thresholds, cusums: slopes.Count);
         double k = input.Thresholds.CusumReference;
-        double[] beforeVariance = InverseDiagonal(running, p);
-        double[] blockVariance = InverseDiagonal(block, p);
+        double[] beforeVariance = UpperTriangular.InverseGramDiagonal(RegressionMath.R(running));
+        double[] blockVariance = UpperTriangular.InverseGramDiagonal(RegressionMath.R(block));
         double[] bBefore = RegressionMath.Estimates(before);
         double[] bBlock = RegressionMath.Estimates(blockFit);
         double floor = input.Setting(CoefficientsCheck.DriftImpactFloor);
@@ -79,7 +79,7 @@ internal static class CoefficientCusums
                 Statistic = "cusum",
                 Value = crossed.Peak,
                 Threshold = h,
-                Severity = alarm && practical ? Severity.Critical : alarm || crossed.Peak > h / 2.0 ? Severity.Warning : Severity.Ok,
+                Severity = GradeCusum(alarm, practical, crossed.Peak, h),
                 EffectSize = Finite(d),
                 EffectSizeName = "coefficient_change",
                 RequiresPersistence = false,
@@ -93,21 +93,5 @@ internal static class CoefficientCusums
         bool alarmed = Quarantine.Alarmed(state.Cusums, sums);
         AugmentedFactor kept = state.Quarantined || alarmed ? running : RegressionMath.Merge(running, block);
         return (findings, state with { Running = StoredFactor.Of(kept), Pending = null, Cusums = sums, Quarantined = Quarantine.After(state.Quarantined, alarmed, sums.Values) });
-    }
-
-    /// <summary>The diagonal of <c>(RᵀR)⁻¹</c>: the squared row norms of R⁻¹.</summary>
-    private static double[] InverseDiagonal(AugmentedFactor factor, int p)
-    {
-        double[,] inverse = UpperTriangular.Invert(RegressionMath.R(factor));
-        var diagonal = new double[p];
-        for (int j = 0; j < p; j++)
-        {
-            for (int c = j; c < p; c++)
-            {
-                diagonal[j] += inverse[j, c] * inverse[j, c];
-            }
-        }
-
-        return diagonal;
     }
 }

@@ -64,8 +64,7 @@ internal sealed record PredictiveImpact(double Corrected, double[] PerCoefficien
             perCoefficient[j] = feature < 0 ? double.NaN : ((delta * delta) - sampling) * sd * sd / s2;
         }
 
-        double[] xBar = RegressionMath.MeanRow(layout, fit.Factor);
-        double meanError = fit.Factor.Columns[layout.Features.Count].Mean - xBar.Select((x, j) => x * b0[j]).Sum();
+        double meanError = RegressionMath.MeanError(layout, fit.Factor, b0);
         double level = (meanError * meanError / s2) - ((1.0 / m) + (1.0 / n));
         double corrected = Raw(baseline, fit) - (layout.ParameterCount * ((1.0 / m) + (1.0 / n)));
         return new PredictiveImpact(corrected, perCoefficient, level, fit.RowCount, onNewRows);

@@ -59,7 +59,7 @@ internal static class StructuralChangeMonitors
             EpochRuns = state.EpochRuns + 1,
             EpochRows = state.EpochRows + (fresh?.RowCount ?? 0),
             CusumRows = state.CusumRows + (fresh?.RowCount ?? 0),
-            CusumErrorSum = state.CusumErrorSum + (fresh is null ? 0.0 : ErrorSum(layout, fresh, b0)),
+            CusumErrorSum = state.CusumErrorSum + (fresh is null ? 0.0 : fresh.RowCount * RegressionMath.MeanError(layout, fresh, b0)),
         };
         var findings = new List<Finding>();
         double x = 1.0 + (state.EpochRows / n);
@@ -159,14 +159,6 @@ internal static class StructuralChangeMonitors
                 : Fmt($"{(statistic == "ols_mosum" ? "OLS-MOSUM" : "OLS-CUSUM")} monitor of {rows}: {Num(value)} within ±{Num(boundary)}"),
             Details = Details(("boundary", boundary)),
         };
-    }
-
-    /// <summary>Σ(y − x·b0) over a factor's rows, from its column means.</summary>
-    private static double ErrorSum(DesignLayout layout, AugmentedFactor rows, double[] b0)
-    {
-        double[] xBar = RegressionMath.MeanRow(layout, rows);
-        double predicted = xBar.Select((v, j) => v * b0[j]).Sum();
-        return rows.RowCount * (rows.Columns[layout.Features.Count].Mean - predicted);
     }
 
     /// <summary>The history's own residual sum (zero with an intercept); strucchange starts the OLS-CUSUM from it.</summary>

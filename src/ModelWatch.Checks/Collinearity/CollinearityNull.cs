@@ -20,6 +20,9 @@ internal sealed class CollinearityNull
     /// <summary>Largest set simulated; larger sizes scale its spread.</summary>
     public const int SimulatedRows = 1500;
 
+    /// <summary>Resampling seed, so every process and every run gets the same spread for a baseline and size.</summary>
+    private const ulong Seed = 20261202;
+
     private CollinearityNull(double[] meanLogVif, double[] sdLogVif, double meanLogCondition, double sdLogCondition)
     {
         MeanLogVif = meanLogVif;
@@ -72,7 +75,7 @@ internal sealed class CollinearityNull
         int q = baseline.Features.Count;
         int n = baseline.SampleSize;
         int size = (int)Math.Min(rows, SimulatedRows);
-        var random = new Xoshiro256(Xoshiro256.Substream(20261202, (ulong)size));
+        var random = new Xoshiro256(Xoshiro256.Substream(Seed, (ulong)size));
         var logVif = new double[q][];
         var logCondition = new List<double>(Resamples);
         for (int j = 0; j < q; j++)

@@ -49,6 +49,13 @@ internal static class FindingText
         return p < warningAlpha || p < alpha ? Severity.Warning : Severity.Ok;
     }
 
+    /// <summary>
+    /// A CUSUM's step: critical when it alarms and the shift is practical; warning when it alarms without, or when a sum
+    /// is past half its threshold (a shift may be building).
+    /// </summary>
+    public static Severity GradeCusum(bool alarm, bool practical, double peak, double threshold) =>
+        alarm && practical ? Severity.Critical : alarm || peak > threshold / 2.0 ? Severity.Warning : Severity.Ok;
+
     public static Finding Skip(string check, string statistic, string reason, string explanation, string? subject = null) => new()
     {
         Check = check,

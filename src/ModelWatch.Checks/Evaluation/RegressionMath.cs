@@ -89,6 +89,13 @@ internal static class RegressionMath
         return s;
     }
 
+    /// <summary>The mean error <c>ȳ − x̄ᵀb</c> of coefficients <paramref name="b"/> over a factor's rows, from its column means.</summary>
+    public static double MeanError(DesignLayout layout, AugmentedFactor factor, double[] b)
+    {
+        double[] xBar = MeanRow(layout, factor);
+        return factor.Columns[layout.Features.Count].Mean - xBar.Select((x, j) => x * b[j]).Sum();
+    }
+
     /// <summary>The mean design row (intercept first) of a factor's rows, from its column sums.</summary>
     public static double[] MeanRow(DesignLayout layout, AugmentedFactor factor)
     {

@@ -81,7 +81,7 @@ internal static class FeatureCusums
         {
             MeanRows = baseline.FeatureMeans.Count == q ? meanRows : 0,
             Means = baseline.FeatureMeans.Count == q ? [.. baseline.FeatureMeans] : [],
-            BinCounts = baseline.FeatureBins.Count == q ? [.. baseline.FeatureBins.Select(b => b.Proportions.Select(p => (long)Math.Round(p * baseline.SampleSize)).ToArray())] : [],
+            BinCounts = baseline.FeatureBins.Count == q ? [.. baseline.FeatureBins.Select(b => b.Counts(baseline.SampleSize))] : [],
             PendingBinCounts = baseline.FeatureBins.Count == q ? [.. baseline.FeatureBins.Select(b => new long[b.Proportions.Length])] : [],
             LeverageExceedances = baseline.LeverageExceedanceCount,
             LeverageRows = baseline.LeverageExceedanceShare is null ? 0 : baseline.SampleSize,
@@ -127,7 +127,7 @@ internal static class FeatureCusums
                 Statistic = "location_cusum",
                 Value = crossed.Peak,
                 Threshold = h,
-                Severity = Sequential(alarm, practical, crossed.Peak, h),
+                Severity = GradeCusum(alarm, practical, crossed.Peak, h),
                 EffectSize = Finite(shift),
                 EffectSizeName = "mean_shift_in_reference_sd",
                 RequiresPersistence = false,
@@ -166,7 +166,7 @@ internal static class FeatureCusums
         {
             string feature = baseline.Features[j];
             (double chi2, int df, double p) = Homogeneity.Pearson(pending[j], state.BinCounts[j]);
-            double z = StandardDistributions.NormalUpperQuantile(Math.Clamp(p, 1e-300, 1.0 - 1e-16));
+            double z = StandardDistributions.UpperTailToNormalScore(p);
             (CusumSums next, bool alarm, CusumSums crossed) = sums.GetValueOrDefault(feature, new CusumSums()).StepUpper(z, k, h);
             sums[feature] = next;
 
@@ -180,7 +180,7 @@ internal static class FeatureCusums
                 Statistic = "shape_cusum",
                 Value = crossed.Upper,
                 Threshold = h,
-                Severity = Sequential(alarm, excess >= critical, crossed.Upper, h),
+                Severity = GradeCusum(alarm, excess >= critical, crossed.Upper, h),
                 EffectSize = Finite(psi),
                 EffectSizeName = "psi",
                 RequiresPersistence = false,
@@ -210,7 +210,7 @@ internal static class FeatureCusums
 
         double h = FalseAlarmBudget.CusumThreshold(input.Thresholds, oneSided: true);
         double p = BetaBinomial.UpperTailMidP(rows, state.LeverageExceedances + 1.0, state.LeverageRows - state.LeverageExceedances, exceed);
-        double z = StandardDistributions.NormalUpperQuantile(Math.Clamp(p, 1e-300, 1.0 - 1e-16));
+        double z = StandardDistributions.UpperTailToNormalScore(p);
         (CusumSums next, bool alarm, CusumSums crossed) = state.Leverage.StepUpper(z, k, h);
         double share = (double)exceed / rows;
         double reference = input.Baseline.LeverageExceedanceShare ?? before;
@@ -221,7 +221,7 @@ internal static class FeatureCusums
             Statistic = "leverage_cusum",
             Value = crossed.Upper,
             Threshold = h,
-            Severity = Sequential(alarm, excess >= input.Setting(FeaturesCheck.LeverageExcessFloor), crossed.Upper, h),
+            Severity = GradeCusum(alarm, excess >= input.Setting(FeaturesCheck.LeverageExcessFloor), crossed.Upper, h),
             EffectSize = Finite(excess),
             EffectSizeName = "exceedance_share_excess",
             RequiresPersistence = false,
@@ -241,7 +241,4 @@ internal static class FeatureCusums
             Leverage = next,
         };
     }
-
-    private static Severity Sequential(bool alarm, bool practical, double peak, double h) =>
-        alarm && practical ? Severity.Critical : alarm || peak > h / 2.0 ? Severity.Warning : Severity.Ok;
 }

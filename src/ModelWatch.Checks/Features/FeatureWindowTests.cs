@@ -95,7 +95,7 @@ public static class FeatureWindowTests
 
         // Significance from Pearson's homogeneity test of the window's bin counts against the reference sample's: PSI's
         // floored logarithms make its own chi-square approximation far too liberal in the tail when bins are thin.
-        long[] referenceCounts = [.. expected.Select(share => (long)Math.Round(share * baseline.SampleSize))];
+        long[] referenceCounts = baseline.FeatureBins[j].Counts(baseline.SampleSize);
         (double chi2, int df, double p) = Homogeneity.Pearson(window.FeatureBinCounts[j], referenceCounts);
         double critical = input.Setting(FeaturesCheck.PsiCritical);
         Severity severity = psi >= critical && p < alpha ? Severity.Critical

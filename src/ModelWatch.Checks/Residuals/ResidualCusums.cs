@@ -70,7 +70,7 @@ internal static class ResidualCusums
         double s = baseline.ResidualStandardDeviation;
         double[] b = RegressionMath.Estimates(fit);
         double[] xBar = RegressionMath.MeanRow(layout, fresh);
-        double error = fresh.Columns[layout.Features.Count].Mean - xBar.Select((x, j) => x * b[j]).Sum();
+        double error = RegressionMath.MeanError(layout, fresh, b);
         double[] v = UpperTriangular.SolveTransposed(RegressionMath.R(running), xBar);
         double t = error / (s * Math.Sqrt((1.0 / m) + v.Sum(a => a * a)));
         double z = StandardDistributions.StudentTToNormalScore(t, baseline.ResidualDegreesOfFreedom);
@@ -82,7 +82,7 @@ internal static class ResidualCusums
             Statistic = "cusum",
             Value = crossed.Peak,
             Threshold = h,
-            Severity = alarm ? Severity.Critical : crossed.Peak > h / 2.0 ? Severity.Warning : Severity.Ok,
+            Severity = GradeCusum(alarm, practical: true, crossed.Peak, h),
             EffectSize = Finite(error / s),
             EffectSizeName = "run_bias_in_reference_sd",
             RequiresPersistence = false,
@@ -111,8 +111,7 @@ internal static class ResidualCusums
         double df = before.RowCount - before.Layout.ParameterCount;
         double pooled = before.ResidualSumOfSquares / df;
         double f = (after.ResidualSumOfSquares - before.ResidualSumOfSquares) / m / pooled;
-        double tail = Math.Clamp(StandardDistributions.FisherUpper(f, m, df), 1e-300, 1.0 - 1e-16);
-        double z = StandardDistributions.NormalUpperQuantile(tail);
+        double z = StandardDistributions.UpperTailToNormalScore(StandardDistributions.FisherUpper(f, m, df));
         (CusumSums next, bool alarm, CusumSums crossed) = sums.Step(z, k, h);
         string direction = crossed.Upper >= crossed.Lower ? "larger" : "smaller";
         var finding = new Finding
@@ -121,7 +120,7 @@ internal static class ResidualCusums
             Statistic = "variance_cusum",
             Value = crossed.Peak,
             Threshold = h,
-            Severity = alarm ? Severity.Critical : crossed.Peak > h / 2.0 ? Severity.Warning : Severity.Ok,
+            Severity = GradeCusum(alarm, practical: true, crossed.Peak, h),
             EffectSize = Finite(f),
             EffectSizeName = "run_variance_ratio",
             RequiresPersistence = false,

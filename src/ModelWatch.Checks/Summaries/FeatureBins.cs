@@ -12,6 +12,9 @@ public sealed class FeatureBins
     /// <summary>Reference share of rows in each bin.</summary>
     public required double[] Proportions { get; init; }
 
+    /// <summary>Rows per bin of a reference sample of <paramref name="sampleSize"/> rows, recovered from its shares.</summary>
+    public long[] Counts(int sampleSize) => [.. Proportions.Select(share => (long)Math.Round(share * sampleSize))];
+
     /// <summary>Index of the bin holding <paramref name="value"/> (NaN falls in the last bin).</summary>
     public int BinOf(double value)
     {

@@ -43,6 +43,26 @@ public static class UpperTriangular
         return x;
     }
 
+    /// <summary>
+    /// The diagonal of <c>(RᵀR)⁻¹</c>, the squared row norms of <c>R⁻¹</c>: each coefficient's variance per unit of
+    /// error variance, without forming <c>RᵀR</c>.
+    /// </summary>
+    public static double[] InverseGramDiagonal(double[,] r)
+    {
+        double[,] inverse = Invert(r);
+        int n = inverse.GetLength(0);
+        var diagonal = new double[n];
+        for (int j = 0; j < n; j++)
+        {
+            for (int k = j; k < n; k++)
+            {
+                diagonal[j] += inverse[j, k] * inverse[j, k];
+            }
+        }
+
+        return diagonal;
+    }
+
     /// <summary>Returns <c>R⁻¹</c> (upper triangular) by back substitution on the identity; never forms <c>RᵀR</c>.</summary>
     public static double[,] Invert(double[,] r)
     {

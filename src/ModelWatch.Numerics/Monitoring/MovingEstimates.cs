@@ -56,7 +56,7 @@ public static class MovingEstimates
         }
 
         double[] estimate = UpperTriangular.Solve(r, c);
-        double[,] inverse = UpperTriangular.Invert(r);
+        double[] inverseGram = UpperTriangular.InverseGramDiagonal(r);
         double scale = Math.Sqrt(window.RowCount) / (sigma * Math.Sqrt(historyRows));
         var delta = new double[p];
         var standardized = new double[p];
@@ -64,14 +64,8 @@ public static class MovingEstimates
         {
             delta[j] = estimate[j] - history[j];
 
-            // (Q_w⁻¹)_jj = K·[(RᵀR)⁻¹]_jj = K·‖row j of R⁻¹‖².
-            double rowNorm = 0.0;
-            for (int k = j; k < p; k++)
-            {
-                rowNorm += inverse[j, k] * inverse[j, k];
-            }
-
-            standardized[j] = scale * delta[j] / Math.Sqrt(rowNorm);
+            // (Q_w⁻¹)_jj = K·[(RᵀR)⁻¹]_jj.
+            standardized[j] = scale * delta[j] / Math.Sqrt(inverseGram[j]);
         }
 
         // Q_w^{1/2}·√K = (RᵀR)^{1/2} = V·Σ·Vᵀ from the SVD R = U·Σ·Vᵀ (strucchange's root.matrix, by eigenvalues).

@@ -104,8 +104,8 @@ public sealed class MovingWindowNull
             }
         });
 
-        // Kept per unit of Z's spread after the history, √(h(1 + h)).
-        double scale = Math.Sqrt(h * (1.0 + h));
+        // Kept per unit of Z's spread after the history.
+        double scale = Spread(h);
         for (int i = 0; i < statistics.Length; i++)
         {
             statistics[i] /= scale;

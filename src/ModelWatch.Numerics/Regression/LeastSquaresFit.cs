@@ -196,7 +196,7 @@ public static class LeastSquaresFit
             }
         }
 
-        double[,] inv = UpperTriangular.Invert(r22);
+        double[] rowNorm2 = UpperTriangular.InverseGramDiagonal(r22);
         for (int j = 0; j < q; j++)
         {
             double colNorm2 = 0.0;
@@ -205,13 +205,7 @@ public static class LeastSquaresFit
                 colNorm2 += r22[i, j] * r22[i, j];
             }
 
-            double rowNorm2 = 0.0;
-            for (int m = j; m < q; m++)
-            {
-                rowNorm2 += inv[j, m] * inv[j, m];
-            }
-
-            vifs[layout.Terms[kept[j + 1]]] = colNorm2 * rowNorm2;
+            vifs[layout.Terms[kept[j + 1]]] = colNorm2 * rowNorm2[j];
         }
 
         return vifs;

@@ -107,6 +107,12 @@ public static class StandardDistributions
         return t >= 0 ? z : -z;
     }
 
+    /// <summary>
+    /// The standard normal score with the given upper-tail probability, the tail kept off 0 and 1 so a p-value that
+    /// underflows or rounds to one still gives a finite score for a CUSUM.
+    /// </summary>
+    public static double UpperTailToNormalScore(double upperTail) => NormalUpperQuantile(Math.Clamp(upperTail, 1e-300, 1.0 - 1e-16));
+
     /// <summary>Normal cumulative distribution function.</summary>
     public static double NormalCdf(double z) => Normal.CDF(0.0, 1.0, z);
 }
