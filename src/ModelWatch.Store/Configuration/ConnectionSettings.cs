@@ -12,16 +12,14 @@ public static class ConnectionSettings
     /// <summary>Configuration key of the state database's connection string.</summary>
     public const string StateKey = "ConnectionStrings:State";
 
-    /// <summary>
-    /// Reads <c>appsettings.json</c> (optional) from <paramref name="directory"/> (default: the current directory),
-    /// then the environment, which wins.
-    /// </summary>
-    public static IConfiguration Load(string? directory = null) =>
-        new ConfigurationBuilder()
-            .SetBasePath(directory ?? Directory.GetCurrentDirectory())
-            .AddJsonFile("appsettings.json", optional: true, reloadOnChange: false)
-            .AddEnvironmentVariables()
-            .Build();
+    /// <summary>The sections the store reads, with the class their entries bind to, for <see cref="UnknownSettings"/>.</summary>
+    public static IReadOnlyDictionary<string, Type> AuditedSections { get; } = new Dictionary<string, Type>(StringComparer.Ordinal)
+    {
+        ["Sources"] = typeof(Dictionary<string, SourceSettings>),
+    };
+
+    /// <summary>The layered configuration of a command (see <see cref="ConfigurationLayers"/>).</summary>
+    public static IConfiguration Load(string? directory = null) => ConfigurationLayers.Load(directory);
 
     /// <summary>The state database's connection string: <paramref name="databaseOption"/> when given, else configuration.</summary>
     public static string ResolveState(IConfiguration configuration, string? databaseOption)
