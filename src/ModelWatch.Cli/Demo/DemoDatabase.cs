@@ -1,24 +1,22 @@
 using ModelWatch.Store.Local;
-using Testcontainers.PostgreSql;
 
 namespace ModelWatch.Cli.Demo;
 
 /// <summary>
 /// The database the demo runs on: the one given with <c>--database</c>, else a throwaway cluster from PostgreSQL
-/// binaries on PATH or under /usr/lib/postgresql/*/bin, else a container through a Docker engine, else the configured
-/// <c>ConnectionStrings:State</c>. Disposing it stops and removes what the demo started, unless it is kept.
+/// binaries on PATH or under /usr/lib/postgresql/*/bin, else the configured <c>ConnectionStrings:State</c>. The
+/// production executable carries no container client: without local binaries, point the demo at a server you own.
+/// Disposing it stops and removes what the demo started, unless it is kept.
 /// </summary>
 internal sealed class DemoDatabase : IAsyncDisposable
 {
     private readonly ThrowawayCluster? _cluster;
-    private readonly PostgreSqlContainer? _container;
 
-    private DemoDatabase(string connectionString, string origin, ThrowawayCluster? cluster, PostgreSqlContainer? container)
+    private DemoDatabase(string connectionString, string origin, ThrowawayCluster? cluster)
     {
         ConnectionString = connectionString;
         Origin = origin;
         _cluster = cluster;
-        _container = container;
     }
 
     public string ConnectionString { get; }
@@ -26,7 +24,7 @@ internal sealed class DemoDatabase : IAsyncDisposable
     public string Origin { get; }
 
     /// <summary>Whether the demo started this database itself (and so may stop it).</summary>
-    public bool Started => _cluster is not null || _container is not null;
+    public bool Started => _cluster is not null;
 
     /// <summary>Leave a started database running at dispose.</summary>
     public bool Keep { get; set; }
@@ -35,7 +33,7 @@ internal sealed class DemoDatabase : IAsyncDisposable
     {
         if (!string.IsNullOrWhiteSpace(connectionString))
         {
-            return new DemoDatabase(connectionString, "the database given with --database", null, null);
+            return new DemoDatabase(connectionString, "the database given with --database", null);
         }
 
         var problems = new List<string>();
@@ -44,7 +42,7 @@ internal sealed class DemoDatabase : IAsyncDisposable
             try
             {
                 ThrowawayCluster cluster = await ThrowawayCluster.StartAsync(binaries, cancellationToken);
-                return new DemoDatabase(cluster.ConnectionString, $"a throwaway PostgreSQL cluster from {binaries}", cluster, null);
+                return new DemoDatabase(cluster.ConnectionString, $"a throwaway PostgreSQL cluster from {binaries}", cluster);
             }
             catch (Exception ex) when (ex is InvalidOperationException or System.ComponentModel.Win32Exception)
             {
@@ -56,33 +54,14 @@ internal sealed class DemoDatabase : IAsyncDisposable
             problems.Add("no PostgreSQL server binaries (initdb, pg_ctl) on PATH or under /usr/lib/postgresql/*/bin");
         }
 
-        if (DockerEngine.MayAnswer())
-        {
-            PostgreSqlContainer container = new PostgreSqlBuilder("postgres:16-alpine").Build();
-            try
-            {
-                await container.StartAsync(cancellationToken);
-                return new DemoDatabase(container.GetConnectionString(), "a PostgreSQL container (Docker, through Testcontainers)", null, container);
-            }
-            catch (Exception ex) when (ex is not OperationCanceledException)
-            {
-                await container.DisposeAsync();
-                problems.Add($"Docker did not start a PostgreSQL container ({ex.Message})");
-            }
-        }
-        else
-        {
-            problems.Add("no Docker engine answers");
-        }
-
         if (!string.IsNullOrWhiteSpace(configured))
         {
-            return new DemoDatabase(configured, "the database of ConnectionStrings:State", null, null);
+            return new DemoDatabase(configured, "the database of ConnectionStrings:State", null);
         }
 
         throw new DemoException(
             "the demo needs a PostgreSQL server (15 or later) and found none: " + string.Join("; ", problems) + ". " +
-            "Install the server (apt-get install postgresql), start a Docker engine, or point the demo at a database you own: " +
+            "Install the server (apt-get install postgresql), or point the demo at a database you own: " +
             "modelwatch demo --database \"Host=...;Username=...;Password=...;Database=...\" (or set ConnectionStrings__State). " +
             "The demo creates the schema courier_demo and the model courier-eta there.");
     }
@@ -97,11 +76,6 @@ internal sealed class DemoDatabase : IAsyncDisposable
         if (_cluster is not null)
         {
             await _cluster.DisposeAsync();
-        }
-
-        if (_container is not null)
-        {
-            await _container.DisposeAsync();
         }
     }
 }

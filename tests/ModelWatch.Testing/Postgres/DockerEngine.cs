@@ -1,6 +1,6 @@
 using System.Net.Sockets;
 
-namespace ModelWatch.Store.Local;
+namespace ModelWatch.Testing.Postgres;
 
 /// <summary>Whether a Docker engine may answer, checked cheaply before Testcontainers is asked to start anything.</summary>
 public static class DockerEngine
