@@ -19,6 +19,9 @@ public sealed record CheckInput
     /// <summary>End of the window (exclusive).</summary>
     public required DateTimeOffset WindowEnd { get; init; }
 
+    /// <summary>The time of the newest row the source delivered in the window (any row, rejected ones too), or null.</summary>
+    public DateTimeOffset? NewestRowTime { get; init; }
+
     /// <summary>This check's state from the previous run; null (or another baseline's, or an older shape) starts afresh.</summary>
     public CheckState? State { get; init; }
 

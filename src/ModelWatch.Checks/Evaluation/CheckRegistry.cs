@@ -5,6 +5,7 @@ using ModelWatch.Checks.PredictionError;
 using ModelWatch.Checks.Features;
 using ModelWatch.Checks.Residuals;
 using ModelWatch.Checks.Serving;
+using ModelWatch.Checks.Source;
 
 namespace ModelWatch.Checks.Evaluation;
 
@@ -14,9 +15,13 @@ namespace ModelWatch.Checks.Evaluation;
 /// </summary>
 public static class CheckRegistry
 {
-    /// <summary>Every check; the data check runs first because the others need its verdict on the row count.</summary>
+    /// <summary>
+    /// Every check. The source check comes first: it judges every run, whatever the row count. The data check comes
+    /// next because the others need its verdict on the row count.
+    /// </summary>
     public static IReadOnlyList<IModelCheck> All { get; } =
     [
+        SourceCheck.Instance,
         DataCheck.Instance,
         ServingCheck.Instance,
         CoefficientsCheck.Instance,

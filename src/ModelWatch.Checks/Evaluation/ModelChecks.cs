@@ -19,7 +19,8 @@ public static class ModelChecks
         DateTimeOffset windowStart,
         DateTimeOffset windowEnd,
         IReadOnlyDictionary<string, CheckState>? states,
-        CheckThresholds? thresholds = null)
+        CheckThresholds? thresholds = null,
+        DateTimeOffset? newestRowTime = null)
     {
         ArgumentNullException.ThrowIfNull(baseline);
         ArgumentNullException.ThrowIfNull(window);
@@ -41,6 +42,7 @@ public static class ModelChecks
                 WindowEnd = windowEnd,
                 State = states is not null && states.TryGetValue(check.Name, out CheckState? s) ? s : null,
                 Thresholds = thresholds,
+                NewestRowTime = newestRowTime,
             };
             CheckResult result;
             if (insufficient)

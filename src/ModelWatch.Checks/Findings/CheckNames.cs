@@ -20,6 +20,9 @@ public static class CheckNames
     /// <summary>Feature drift and extrapolation.</summary>
     public const string Features = "features";
 
+    /// <summary>Whether the model can be watched at all: runs that keep failing, a source whose newest row is too old.</summary>
+    public const string Source = "source";
+
     /// <summary>Data health: row counts, rejected rows, constant features, quiet sources.</summary>
     public const string Data = "data";
 

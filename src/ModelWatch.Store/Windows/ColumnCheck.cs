@@ -77,8 +77,10 @@ internal static class ColumnCheck
         }
 
         string select = string.Join(", ", columns.Select(c => needsCast.Contains(c) ? $"{Quote(c)}::float8" : Quote(c)));
-        // The last column says whether the previous run already saw the row (sequential statistics consume only new rows).
-        return $"WITH mw_window AS (\n{spec.Query}\n)\nSELECT {select}, ({Quote(spec.TimeColumn)} >= @new_from) AS mw_is_new FROM mw_window ORDER BY {Quote(spec.TimeColumn)}";
+        // Then whether the previous run already saw the row (sequential statistics consume only new rows), and the row's
+        // time in epoch seconds (the newest row's age tells a source that answers but stopped filling).
+        string time = Quote(spec.TimeColumn);
+        return $"WITH mw_window AS (\n{spec.Query}\n)\nSELECT {select}, ({time} >= @new_from) AS mw_is_new, extract(epoch FROM {time})::float8 AS mw_epoch FROM mw_window ORDER BY {time}";
     }
 
     private static string Quote(string identifier) => "\"" + identifier.Replace("\"", "\"\"", StringComparison.Ordinal) + "\"";

@@ -14,6 +14,7 @@ internal sealed class RowCopier
     private readonly int _outcomeOrdinal;
     private readonly bool _hasPrediction;
     private readonly int _isNewOrdinal;
+    private readonly int _epochOrdinal;
     private readonly string[] _nullReasons;
     private readonly string[] _nonFiniteReasons;
 
@@ -24,6 +25,7 @@ internal sealed class RowCopier
         _outcomeOrdinal = spec.Features.Count;
         _hasPrediction = spec.PredictionColumn is not null;
         _isNewOrdinal = _outcomeOrdinal + (_hasPrediction ? 2 : 1);
+        _epochOrdinal = _isNewOrdinal + 1;
         string[] columns = [.. spec.Features, spec.Outcome];
         _nullReasons = [.. columns.Select(c => $"null:{c}")];
         _nonFiniteReasons = [.. columns.Select(c => $"non_finite:{c}")];
@@ -34,6 +36,12 @@ internal sealed class RowCopier
     public long RowsRejected { get; private set; }
 
     public Dictionary<string, long> Reasons { get; } = new(StringComparer.Ordinal);
+
+    /// <summary>The newest row's time in epoch seconds (rejected rows included), or NaN before the first row.</summary>
+    public double NewestEpoch { get; private set; } = double.NaN;
+
+    /// <summary>The newest row's time, or null.</summary>
+    public DateTimeOffset? NewestRowTime => double.IsFinite(NewestEpoch) ? DateTimeOffset.UnixEpoch.AddTicks((long)(NewestEpoch * TimeSpan.TicksPerSecond)) : null;
 
     public void Offer(NpgsqlDataReader reader, IWindowRowSink sink)
     {
@@ -75,12 +83,27 @@ internal sealed class RowCopier
                 }
 
                 bool isNew = reader.IsDBNull(_isNewOrdinal) || reader.GetBoolean(_isNewOrdinal);
+                NoteTime(reader);
                 sink.AddRow(_features, value, served, isNew);
                 return;
             }
         }
 
+        NoteTime(reader);
         Reject(bad, badIsNull);
+    }
+
+    private void NoteTime(NpgsqlDataReader reader)
+    {
+        // Sequential access may skip columns forward; the time is the last one.
+        if (!reader.IsDBNull(_epochOrdinal))
+        {
+            double epoch = reader.GetDouble(_epochOrdinal);
+            if (double.IsFinite(epoch) && !(epoch <= NewestEpoch))
+            {
+                NewestEpoch = epoch;
+            }
+        }
     }
 
     private void Reject(int column, bool isNull)

@@ -9,6 +9,9 @@ public sealed record WindowReadResult<TSink>(
     long RowsRejected,
     IReadOnlyDictionary<string, long> RejectedReasons)
 {
+    /// <summary>The time of the newest row read (rejected rows included), or null when the window had none.</summary>
+    public DateTimeOffset? NewestRowTime { get; init; }
+
     /// <summary>Rows that reached the sink.</summary>
     public long RowsAccepted => RowsRead - RowsRejected;
 }

@@ -126,7 +126,10 @@ public sealed class WindowReader
             }
         }
 
-        return new WindowReadResult<TSink>(sink, bounds[0], bounds[^1], results.Sum(r => r.RowsRead), results.Sum(r => r.RowsRejected), reasons);
+        return new WindowReadResult<TSink>(sink, bounds[0], bounds[^1], results.Sum(r => r.RowsRead), results.Sum(r => r.RowsRejected), reasons)
+        {
+            NewestRowTime = results.Select(r => r.NewestRowTime).Max(),
+        };
     }
 
     /// <summary>Throws <see cref="WindowReadFailure.TooFewRows"/> unless the read left at least <c>min_rows</c> usable rows.</summary>
@@ -167,7 +170,7 @@ public sealed class WindowReader
         }
 
         await transaction.CommitAsync(cancellationToken);
-        return new WindowReadResult<TSink>(sink, start, end, rows.RowsRead, rows.RowsRejected, rows.Reasons);
+        return new WindowReadResult<TSink>(sink, start, end, rows.RowsRead, rows.RowsRejected, rows.Reasons) { NewestRowTime = rows.NewestRowTime };
     }
 
     private async Task<NpgsqlTransaction> BeginAsync(NpgsqlConnection connection, CancellationToken cancellationToken)

@@ -11,7 +11,7 @@ public sealed class CheckRegistryTests
     [Fact]
     public void Every_check_is_registered_once_in_run_order_with_its_runbook()
     {
-        Assert.Equal(["data", "serving", "coefficients", "collinearity", "residuals", "error", "features"], CheckRegistry.Names);
+        Assert.Equal(["source", "data", "serving", "coefficients", "collinearity", "residuals", "error", "features"], CheckRegistry.Names);
         Assert.Equal(CheckRegistry.Names, CheckNames.All);
         Assert.All(CheckRegistry.All, c => Assert.Equal(c.Name, c.Runbook.Check));
         Assert.Equal(CheckRegistry.Channels.Count, CheckRegistry.Channels.Select(c => c.Name).Distinct().Count());
