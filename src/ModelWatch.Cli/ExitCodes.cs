@@ -12,6 +12,9 @@ public static class ExitCodes
     /// <summary>The command line could not be parsed.</summary>
     public const int Usage = 2;
 
-    /// <summary>The command failed at run time (bad input file, database error, ...).</summary>
+    /// <summary>The command failed at run time (bad input file, database error, ...), or the daemon's configuration has problems.</summary>
     public const int RuntimeError = 3;
+
+    /// <summary>The daemon stopped because of a fault, not because it was asked to (systemd's <c>Restart=on-failure</c> restarts it).</summary>
+    public const int DaemonFault = 4;
 }

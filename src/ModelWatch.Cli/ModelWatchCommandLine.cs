@@ -29,6 +29,13 @@ public static class ModelWatchCommandLine
     {
         ParseResult parse = CreateRoot().Parse(args);
         var configuration = new InvocationConfiguration { Output = output, Error = error };
+        if (parse.CommandResult.Command.Name == "daemon")
+        {
+            // The daemon's host owns SIGTERM and Ctrl+C: it drains in-flight runs for up to its shutdown timeout and then
+            // exits 0. The command line's own handler would end the process after two seconds with 143.
+            configuration.ProcessTerminationTimeout = null;
+        }
+
         if (parse.Errors.Count > 0)
         {
             foreach (var parseError in parse.Errors)

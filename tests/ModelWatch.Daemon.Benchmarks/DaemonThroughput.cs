@@ -7,6 +7,7 @@ using Microsoft.Extensions.Hosting;
 using Microsoft.Extensions.Logging;
 using Microsoft.Extensions.Time.Testing;
 using ModelWatch.Daemon.Hosting;
+using ModelWatch.Daemon.Runs;
 using ModelWatch.Daemon.Scheduling;
 using ModelWatch.Daemon.Telemetry;
 using ModelWatch.Store.Baselines;
@@ -207,10 +208,10 @@ internal sealed class DaemonThroughput(int models, int rowsPerWindow, TextWriter
             .AddView(i => i.Meter.Name == TelemetryNames.Source ? new MetricStreamConfiguration { CardinalityLimit = limit } : null)
             .AddInMemoryExporter(exported)
             .Build();
-        var metrics = new ModelWatchMetrics(services.GetRequiredService<System.Diagnostics.Metrics.IMeterFactory>());
+        var metrics = new ModelWatchMetrics(services.GetRequiredService<System.Diagnostics.Metrics.IMeterFactory>(), TimeProvider.System);
         for (int i = 0; i < models; i++)
         {
-            metrics.Update($"bench-{i:D4}", new ModelGaugeValues(1.0, 10.0, 1.0, 0.01, 0, 0));
+            metrics.Update($"bench-{i:D4}", new ModelGaugeValues(new RunMeasurements(1.0, 10.0, 1.0, 0.01), 0, 0, false, 0, TimeProvider.System.GetUtcNow(), TimeProvider.System.GetUtcNow(), TimeSpan.FromHours(1)));
         }
 
         provider.ForceFlush();

@@ -1,5 +1,7 @@
 using System.CommandLine;
 using System.Globalization;
+using Microsoft.Extensions.Configuration;
+using ModelWatch.Daemon.Hosting;
 using ModelWatch.Store.Baselines;
 using ModelWatch.Store.Configuration;
 using ModelWatch.Store.Migrations;
@@ -45,7 +47,13 @@ internal static class StoreCommandRunner
         TextWriter error = parse.InvocationConfiguration.Error;
         try
         {
-            await using var databases = new StoreDataSources(ConnectionSettings.Load(), parse.GetValue(database));
+            IConfiguration configuration = ConnectionSettings.Load();
+            foreach (string warning in DaemonSettings.Audit(configuration).Warnings)
+            {
+                error.WriteLine($"modelwatch {name}: configuration: {warning}");
+            }
+
+            await using var databases = new StoreDataSources(configuration, parse.GetValue(database));
             return await body(databases, parse.InvocationConfiguration.Output, cancellationToken);
         }
         catch (ModelSpecException ex)

@@ -131,7 +131,7 @@ internal sealed class DemoRunner(TextWriter output, TextWriter error)
             ["Daemon:MaxCatchUpSlots"] = "10000",
             ["Daemon:ShutdownTimeout"] = "00:10:00",
             ["Retention:Interval"] = "7.00:00:00",
-            ["Health:Enabled"] = "false",
+            ["Http:Enabled"] = "false",
             ["Telemetry:PrometheusEnabled"] = "false",
             ["Specs:Directory"] = string.Empty,
         };

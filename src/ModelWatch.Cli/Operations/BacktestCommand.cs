@@ -1,7 +1,7 @@
 using System.CommandLine;
 using ModelWatch.Cli.Commands;
 using ModelWatch.Cli.Output;
-using ModelWatch.Daemon.Execution;
+using ModelWatch.Daemon.Runs;
 using ModelWatch.Store.Models;
 using ModelWatch.Store.Specs;
 
@@ -57,7 +57,7 @@ internal static class BacktestCommand
                     RunOutcome outcome = await services.Pipeline.ExecuteAsync(model, slot, memory, ct);
                     memory.Remember(outcome);
                     timeline.Apply(slot, outcome.Decisions);
-                    windows.Add(new BacktestWindow(slot, outcome.WindowStart, outcome.WindowEnd, outcome.Status, outcome.Reason, FindingLine.Of(outcome.Results)));
+                    windows.Add(new BacktestWindow(slot, outcome.WindowStart, outcome.WindowEnd, outcome.Status.Name(), outcome.Reason, FindingLine.Of(outcome.Results)));
                     advance();
                 }
             });

@@ -2,7 +2,7 @@ using System.CommandLine;
 using ModelWatch.Checks.Findings;
 using ModelWatch.Cli.Commands;
 using ModelWatch.Cli.Output;
-using ModelWatch.Daemon.Execution;
+using ModelWatch.Daemon.Runs;
 using ModelWatch.Store.Models;
 
 namespace ModelWatch.Cli.Operations;
@@ -65,7 +65,7 @@ internal static class CheckCommand
                 await error.WriteLineAsync($"modelwatch check: {note}");
             }
 
-            if (outcome.Status == "failed")
+            if (outcome.Status == RunStatus.Failed)
             {
                 await error.WriteLineAsync($"modelwatch check: model {model.Key}: the run for slot {CliJson.Time(slot)} failed: {outcome.Reason}");
                 return ExitCodes.RuntimeError;

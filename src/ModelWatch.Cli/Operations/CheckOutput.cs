@@ -1,7 +1,7 @@
 using System.Globalization;
 using System.Text.Json;
 using ModelWatch.Cli.Output;
-using ModelWatch.Daemon.Execution;
+using ModelWatch.Daemon.Runs;
 
 namespace ModelWatch.Cli.Operations;
 
@@ -17,7 +17,7 @@ internal static class CheckOutput
         writer.WriteString("start", CliJson.Time(outcome.WindowStart));
         writer.WriteString("end", CliJson.Time(outcome.WindowEnd));
         writer.WriteEndObject();
-        writer.WriteString("status", outcome.Status);
+        writer.WriteString("status", outcome.Status.Name());
         writer.WriteString("reason", outcome.Reason);
         writer.WriteNumber("rows", outcome.RowsRead);
         FindingLine.WriteArray(writer, findings);
@@ -28,7 +28,7 @@ internal static class CheckOutput
     {
         string worst = FindingLine.Worst(findings) is { } w ? FindingLine.NameOf(w) : "-";
         output.WriteLine($"model {outcome.ModelKey}, slot {CliJson.Time(outcome.Slot)}, window {CliJson.Time(outcome.WindowStart)} → {CliJson.Time(outcome.WindowEnd)}");
-        output.WriteLine(string.Create(CultureInfo.InvariantCulture, $"status {outcome.Status}{(outcome.Reason is null ? string.Empty : " (" + outcome.Reason + ")")}, {outcome.RowsRead} row(s) read, {outcome.RowsRejected} rejected, worst severity {worst}"));
+        output.WriteLine(string.Create(CultureInfo.InvariantCulture, $"status {outcome.Status.Name()}{(outcome.Reason is null ? string.Empty : " (" + outcome.Reason + ")")}, {outcome.RowsRead} row(s) read, {outcome.RowsRejected} rejected, worst severity {worst}"));
         if (findings.Count > 0)
         {
             output.WriteLine();

@@ -1,8 +1,8 @@
 using Dapper;
 using ModelWatch.Cli.Commands;
 using ModelWatch.Cli.Output;
-using ModelWatch.Daemon.Execution;
 using ModelWatch.Daemon.Persistence;
+using ModelWatch.Daemon.Runs;
 using ModelWatch.Daemon.Scheduling;
 using ModelWatch.Store.Models;
 using Npgsql;

@@ -6,6 +6,7 @@ using ModelWatch.Daemon.Execution;
 using ModelWatch.Daemon.Hosting;
 using ModelWatch.Daemon.Options;
 using ModelWatch.Daemon.Persistence;
+using ModelWatch.Daemon.Runs;
 using ModelWatch.Store.Configuration;
 using ModelWatch.Store.Models;
 using Npgsql;

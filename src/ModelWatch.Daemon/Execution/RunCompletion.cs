@@ -4,7 +4,10 @@ using Microsoft.Extensions.Options;
 using ModelWatch.Daemon.Alerts;
 using ModelWatch.Daemon.Notifications;
 using ModelWatch.Daemon.Options;
+using ModelWatch.Checks.Findings;
+using ModelWatch.Checks.Source;
 using ModelWatch.Daemon.Persistence;
+using ModelWatch.Daemon.Runs;
 using ModelWatch.Daemon.Telemetry;
 using ModelWatch.Store.Models;
 using Npgsql;
@@ -13,9 +16,10 @@ namespace ModelWatch.Daemon.Execution;
 
 /// <summary>
 /// Records a run under the lease (its alert transitions and their queued notifications included), then tells the
-/// world: metrics, per-model gauges, one alert event per committed transition, and a nudge to the notification
-/// dispatcher. Telemetry is emitted only after the commit, so an alert event is never
-/// sent for a transition that was rolled back.
+/// world: metrics, the per-model gauges (computed here, from the run and the open alerts it left), one alert event per
+/// committed transition, and a nudge to the notification dispatcher. Telemetry is emitted only after the commit, so an
+/// alert event is never sent for a transition that was rolled back. Called inside the run's span, so the persist span
+/// and the alert events carry the run's trace id.
 /// </summary>
 public sealed partial class RunCompletion(
     RunRecorder recorder,
@@ -30,7 +34,7 @@ public sealed partial class RunCompletion(
     // Open alerts by model, for the gauges: recounted for a model after its own transitions, and for every model at
     // once (one query) at most every five minutes, which picks up operators' acks and resolves made elsewhere.
     private static readonly TimeSpan RecountInterval = TimeSpan.FromMinutes(5);
-    private System.Collections.Concurrent.ConcurrentDictionary<string, (int Warnings, int Criticals)> _openAlerts = new(StringComparer.Ordinal);
+    private System.Collections.Concurrent.ConcurrentDictionary<string, OpenAlertCount> _openAlerts = new(StringComparer.Ordinal);
     private long _countedAtTicks = DateTimeOffset.MinValue.UtcTicks;
     private int _recounting;
 
@@ -72,23 +76,33 @@ public sealed partial class RunCompletion(
             notifications.Wake();
         }
 
-        if (outcome.Gauges is { } gauges)
+        if (recorded.Transitions.Count > 0)
         {
-            if (recorded.Transitions.Count > 0)
-            {
-                _openAlerts[outcome.ModelKey] = (await CountOpenAlertsAsync(outcome.ModelKey, cancellationToken)).GetValueOrDefault(outcome.ModelKey);
-            }
-            else if (now.UtcTicks - Interlocked.Read(ref _countedAtTicks) > RecountInterval.Ticks)
-            {
-                await RecountAllAsync(now, cancellationToken);
-            }
-
-            (int warnings, int criticals) = _openAlerts.GetValueOrDefault(outcome.ModelKey);
-            metrics.Update(outcome.ModelKey, gauges with { OpenWarnings = warnings, OpenCriticals = criticals });
+            _openAlerts[outcome.ModelKey] = (await CountOpenAlertsAsync(outcome.ModelKey, cancellationToken)).GetValueOrDefault(outcome.ModelKey);
+        }
+        else if (now.UtcTicks - Interlocked.Read(ref _countedAtTicks) > RecountInterval.Ticks)
+        {
+            await RecountAllAsync(now, cancellationToken);
         }
 
-        LogRecorded(logger, outcome.ModelKey, outcome.Slot, outcome.Status, outcome.Reason ?? "-", outcome.RowsRead, recorded.Transitions.Count);
+        metrics.Update(outcome.ModelKey, GaugesOf(outcome, _openAlerts.GetValueOrDefault(outcome.ModelKey), now, nextDue));
+        string status = outcome.Status.Name();
+        LogRecorded(logger, outcome.ModelKey, outcome.Slot, status, outcome.Reason ?? "-", outcome.RowsRead, recorded.Transitions.Count);
         return recorded;
+    }
+
+    private static ModelGaugeValues GaugesOf(RunOutcome outcome, OpenAlertCount open, DateTimeOffset now, DateTimeOffset nextDue)
+    {
+        CheckResult? source = outcome.Results.FirstOrDefault(r => r.Check == CheckNames.Source);
+        return new ModelGaugeValues(
+            outcome.Measurements ?? ModelGaugeValues.NotMeasured,
+            open.Warnings,
+            open.Criticals,
+            open.Source > 0,
+            source is null ? null : SourceCheck.Recall(source.State).ConsecutiveFailures,
+            outcome.NewestRowTime,
+            now,
+            nextDue > outcome.Slot ? nextDue - outcome.Slot : TimeSpan.Zero);
     }
 
     private async Task RecountAllAsync(DateTimeOffset now, CancellationToken cancellationToken)
@@ -110,24 +124,27 @@ public sealed partial class RunCompletion(
         }
     }
 
-    /// <summary>Unresolved alerts by model and severity, of one model or (null) of every model.</summary>
-    private async Task<Dictionary<string, (int Warnings, int Criticals)>> CountOpenAlertsAsync(string? model, CancellationToken cancellationToken)
+    /// <summary>Unresolved alerts by model and severity (and those of the source check), of one model or (null) of every model.</summary>
+    private async Task<Dictionary<string, OpenAlertCount>> CountOpenAlertsAsync(string? model, CancellationToken cancellationToken)
     {
         await using NpgsqlConnection connection = await state.OpenConnectionAsync(cancellationToken);
-        var rows = await connection.QueryAsync<(string Model, string Severity, int Count)>(new CommandDefinition(
+        var rows = await connection.QueryAsync<(string Model, string Severity, bool Source, int Count)>(new CommandDefinition(
             """
-            SELECT model_key, severity, count(*)::int FROM modelwatch.alert
+            SELECT model_key, severity, check_name = @source, count(*)::int FROM modelwatch.alert
              WHERE state <> 'resolved' AND (@model::text IS NULL OR model_key = @model::text)
-             GROUP BY model_key, severity
+             GROUP BY model_key, severity, check_name = @source
             """,
-            new { model },
+            new { model, source = CheckNames.Source },
             commandTimeout: 30,
             cancellationToken: cancellationToken));
-        var counts = new Dictionary<string, (int Warnings, int Criticals)>(StringComparer.Ordinal);
-        foreach ((string key, string severity, int count) in rows)
+        var counts = new Dictionary<string, OpenAlertCount>(StringComparer.Ordinal);
+        foreach ((string key, string severity, bool source, int count) in rows)
         {
-            (int warnings, int criticals) = counts.GetValueOrDefault(key);
-            counts[key] = severity == "critical" ? (warnings, criticals + count) : (warnings + count, criticals);
+            OpenAlertCount c = counts.GetValueOrDefault(key);
+            counts[key] = new OpenAlertCount(
+                c.Warnings + (severity == "critical" ? 0 : count),
+                c.Criticals + (severity == "critical" ? count : 0),
+                c.Source + (source ? count : 0));
         }
 
         return counts;

@@ -1,6 +1,5 @@
 using Microsoft.Extensions.Logging;
 using OpenTelemetry.Logs;
-using OpenTelemetry.Resources;
 
 namespace ModelWatch.Daemon.Hosting;
 
@@ -11,7 +10,7 @@ namespace ModelWatch.Daemon.Hosting;
 /// </summary>
 public sealed class AlertEventPipeline : IDisposable
 {
-    /// <summary>Builds the pipeline; <paramref name="configure"/> adds exporters (OTLP in production, in-memory in tests).</summary>
+    /// <summary>Builds the pipeline; <paramref name="configure"/> sets the resource and adds exporters (OTLP in production, in-memory in tests).</summary>
     public AlertEventPipeline(Action<OpenTelemetryLoggerOptions> configure, ILoggerFactory ordinaryLogs)
     {
         ArgumentNullException.ThrowIfNull(configure);
@@ -20,7 +19,6 @@ public sealed class AlertEventPipeline : IDisposable
         {
             builder.AddOpenTelemetry(options =>
             {
-                options.SetResourceBuilder(ResourceBuilder.CreateDefault().AddService("modelwatch"));
                 options.IncludeFormattedMessage = true;
                 options.ParseStateValues = true;
                 configure(options);

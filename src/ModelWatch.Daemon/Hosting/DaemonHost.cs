@@ -1,61 +1,159 @@
+using Microsoft.AspNetCore.Builder;
+using Microsoft.AspNetCore.Hosting;
+using Microsoft.AspNetCore.Server.Kestrel.Core;
 using Microsoft.Extensions.Configuration;
 using Microsoft.Extensions.DependencyInjection;
 using Microsoft.Extensions.Hosting;
+using Microsoft.Extensions.Hosting.Internal;
+using Microsoft.Extensions.Logging;
+using ModelWatch.Daemon.Alerts;
 using ModelWatch.Daemon.Options;
+using ModelWatch.Daemon.Telemetry;
+using ModelWatch.Store.Configuration;
 using Serilog;
-using Serilog.Events;
+using ILogger = Microsoft.Extensions.Logging.ILogger;
+using Serilog.Filters;
 using Serilog.Formatting.Compact;
 
 namespace ModelWatch.Daemon.Hosting;
 
 /// <summary>
-/// Builds the Generic Host that <c>modelwatch daemon</c> runs: configuration from appsettings.json (beside the binary
-/// and in the working folder), an optional file named by <c>MODELWATCH_SETTINGS</c>, and environment variables;
-/// Serilog for ordinary logs (console text or compact JSON, plus OTLP when <c>OTEL_EXPORTER_OTLP_ENDPOINT</c> is set);
-/// systemd notification when run as a <c>Type=notify</c> unit.
+/// Builds the host that <c>modelwatch daemon</c> runs. Configuration comes from <see cref="ConfigurationLayers"/> (the
+/// same path every command uses) and is audited first (<see cref="DaemonSettings"/>): every problem at once, before
+/// anything starts. With <c>Http:Enabled</c> the host is an ASP.NET Core application on Kestrel serving health and the
+/// Prometheus scrape (<see cref="HttpEndpoint"/>); without, a plain host. Serilog writes ordinary logs (console text
+/// in UTC or compact JSON, plus OTLP when <c>OTEL_EXPORTER_OTLP_ENDPOINT</c> is set); systemd is notified when the
+/// daemon runs as a <c>Type=notify</c> unit.
 /// </summary>
-public static class DaemonHost
+public static partial class DaemonHost
 {
-    /// <summary>Creates the host; <paramref name="configure"/> lets a caller (the demo, tests) adjust services.</summary>
+    /// <summary>Creates the host; <paramref name="configuration"/> and <paramref name="configure"/> let a caller (the demo, tests) adjust settings and services.</summary>
+    /// <exception cref="DaemonConfigurationException">The configuration has problems (all are listed).</exception>
     public static IHost Build(string[] args, string? databaseOption = null, Action<IConfigurationBuilder>? configuration = null, Action<IServiceCollection>? configure = null)
     {
-        HostApplicationBuilder builder = Host.CreateApplicationBuilder(new HostApplicationBuilderSettings { Args = args, ContentRootPath = Directory.GetCurrentDirectory() });
-        builder.Configuration.AddJsonFile(Path.Combine(AppContext.BaseDirectory, "appsettings.json"), optional: true, reloadOnChange: false);
-        if (Environment.GetEnvironmentVariable("MODELWATCH_SETTINGS") is { Length: > 0 } settings)
+        string folder = Directory.GetCurrentDirectory();
+        string environment = ConfigurationLayers.EnvironmentName();
+        var settings = new ConfigurationManager();
+        KeyValuePair<string, string?>[]? options = string.IsNullOrWhiteSpace(databaseOption) ? null : [new(ConnectionSettings.StateKey, databaseOption)];
+        try
         {
-            builder.Configuration.AddJsonFile(Path.GetFullPath(settings), optional: false, reloadOnChange: false);
+            settings.AddModelWatchLayers(folder, environment, options);
+            configuration?.Invoke(settings);
+        }
+        catch (InvalidDataException ex)
+        {
+            throw new DaemonConfigurationException([$"settings: {ex.Message} {ex.InnerException?.Message}".TrimEnd()]);
         }
 
-        builder.Configuration.AddEnvironmentVariables();
-        configuration?.Invoke(builder.Configuration);
-        builder.Services.AddSystemd();
-        builder.Services.AddSerilog((_, logger) => ConfigureSerilog(logger, builder.Configuration));
-        configure?.Invoke(builder.Services);
-        builder.Services.AddModelWatchDaemon(builder.Configuration, databaseOption);
-        return builder.Build();
+        (IReadOnlyList<string> problems, IReadOnlyList<string> warnings) = DaemonSettings.Audit(settings);
+        if (problems.Count > 0)
+        {
+            throw new DaemonConfigurationException(problems);
+        }
+
+        HttpOptions http = settings.GetSection(HttpOptions.Section).Get<HttpOptions>() ?? new HttpOptions();
+        TelemetryOptions telemetry = settings.GetSection(TelemetryOptions.Section).Get<TelemetryOptions>() ?? new TelemetryOptions();
+        IHost host;
+        if (http.Enabled)
+        {
+            WebApplicationBuilder builder = WebApplication.CreateEmptyBuilder(new WebApplicationOptions { Args = args, EnvironmentName = environment, ContentRootPath = folder });
+            builder.Configuration.AddConfiguration(settings);
+            IReadOnlyList<ListenAddress> addresses = ListenAddress.ParseAll(http.Urls, []);
+            builder.WebHost.UseKestrelCore().ConfigureKestrel(kestrel => Listen(kestrel, addresses));
+            builder.Services.AddRoutingCore();
+            AddServices(builder, databaseOption, configure);
+            WebApplication app = builder.Build();
+            HttpEndpoint.Map(app, telemetry.PrometheusEnabled);
+            host = app;
+        }
+        else
+        {
+            HostApplicationBuilder builder = Host.CreateEmptyApplicationBuilder(new HostApplicationBuilderSettings { Args = args, EnvironmentName = environment, ContentRootPath = folder });
+            builder.Configuration.AddConfiguration(settings);
+            AddServices(builder, databaseOption, configure);
+            host = builder.Build();
+        }
+
+        ILogger logger = host.Services.GetRequiredService<ILoggerFactory>().CreateLogger("ModelWatch.Configuration");
+        foreach (string warning in warnings)
+        {
+            LogUnknownSetting(logger, warning);
+        }
+
+        return host;
     }
 
-    private static void ConfigureSerilog(LoggerConfiguration logger, ConfigurationManager configuration)
+    private static void AddServices(IHostApplicationBuilder builder, string? databaseOption, Action<IServiceCollection>? configure)
+    {
+        IConfiguration configuration = builder.Configuration;
+
+        // The empty builders register no lifetime: SIGTERM and Ctrl+C must stop the host gracefully (exit 0), and under
+        // systemd its own lifetime replaces this one.
+        builder.Services.AddSingleton<IHostLifetime, ConsoleLifetime>();
+        builder.Services.Configure<ConsoleLifetimeOptions>(o => o.SuppressStatusMessages = true);
+        builder.Services.AddSystemd();
+        builder.Services.AddSerilog((_, logger) => ConfigureSerilog(logger, configuration));
+        configure?.Invoke(builder.Services);
+        builder.Services.AddModelWatchDaemon(configuration, databaseOption);
+    }
+
+    private static void Listen(KestrelServerOptions kestrel, IReadOnlyList<ListenAddress> addresses)
+    {
+        kestrel.AddServerHeader = false;
+
+        // Nothing the endpoint serves takes a body; anything larger than this is refused before it is read.
+        kestrel.Limits.MaxRequestBodySize = 64 * 1024;
+        kestrel.Limits.MaxRequestHeadersTotalSize = 32 * 1024;
+        kestrel.Limits.MaxConcurrentConnections = 256;
+        foreach (ListenAddress address in addresses)
+        {
+            if (address.AnyAddress)
+            {
+                kestrel.ListenAnyIP(address.Port);
+            }
+            else if (address.Address is { } ip)
+            {
+                kestrel.Listen(ip, address.Port);
+            }
+            else
+            {
+                kestrel.ListenLocalhost(address.Port);
+            }
+        }
+    }
+
+    /// <summary>Serilog from configuration: levels from <c>Logging:LogLevel</c>, console text with UTC times or compact JSON, OTLP when configured.</summary>
+    internal static void ConfigureSerilog(LoggerConfiguration logger, IConfiguration configuration)
     {
         var telemetry = configuration.GetSection(TelemetryOptions.Section).Get<TelemetryOptions>() ?? new TelemetryOptions();
-        logger.MinimumLevel.Information()
-            .MinimumLevel.Override("Microsoft", LogEventLevel.Warning)
-            .MinimumLevel.Override("System.Net.Http", LogEventLevel.Warning)
-            .MinimumLevel.Override("Npgsql", LogEventLevel.Warning)
-            .Enrich.FromLogContext();
+        LogLevels.Apply(logger, configuration);
+        logger.Enrich.FromLogContext().Enrich.With<UtcTimestampEnricher>();
         if (telemetry.JsonConsole)
         {
             logger.WriteTo.Console(new RenderedCompactJsonFormatter());
         }
         else
         {
-            logger.WriteTo.Console(outputTemplate: "{Timestamp:yyyy-MM-ddTHH:mm:ss.fffZ} {Level:u3} {Message:lj}{NewLine}{Exception}", formatProvider: System.Globalization.CultureInfo.InvariantCulture);
+            logger.WriteTo.Console(outputTemplate: "{" + UtcTimestampEnricher.Property + "} {Level:u3} {Message:lj}{NewLine}{Exception}", formatProvider: System.Globalization.CultureInfo.InvariantCulture);
         }
 
-        if (!string.IsNullOrWhiteSpace(configuration["OTEL_EXPORTER_OTLP_ENDPOINT"]))
+        if (OtlpSettings.Configured(configuration))
         {
-            // Ordinary logs only: alert events travel through the OpenTelemetry pipeline that keeps their EventName.
-            logger.WriteTo.OpenTelemetry();
+            // Ordinary logs only: alert events are exported once, by the OpenTelemetry pipeline that keeps their EventName.
+            string worker = configuration[$"{DaemonOptions.Section}:{nameof(DaemonOptions.WorkerId)}"] is { Length: > 0 } w ? w : new DaemonOptions().WorkerId;
+            Dictionary<string, object> resource = TelemetryResource.AsDictionary(configuration, worker);
+            logger.WriteTo.Logger(otlp => otlp
+                .Filter.ByExcluding(Matching.FromSource<AlertEventLogger>())
+                .WriteTo.OpenTelemetry(o =>
+                {
+                    o.Endpoint = OtlpSettings.LogsEndpoint(configuration).ToString();
+                    o.Protocol = OtlpSettings.UsesHttp(configuration) ? Serilog.Sinks.OpenTelemetry.OtlpProtocol.HttpProtobuf : Serilog.Sinks.OpenTelemetry.OtlpProtocol.Grpc;
+                    o.Headers = OtlpSettings.Headers(configuration);
+                    o.ResourceAttributes = resource;
+                }));
         }
     }
+
+    [LoggerMessage(EventId = 1009, Level = LogLevel.Warning, Message = "Configuration: {Warning}")]
+    private static partial void LogUnknownSetting(ILogger logger, string warning);
 }

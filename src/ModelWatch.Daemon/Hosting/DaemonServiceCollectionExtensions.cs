@@ -40,7 +40,7 @@ public static class DaemonServiceCollectionExtensions
         ArgumentNullException.ThrowIfNull(services);
         ArgumentNullException.ThrowIfNull(configuration);
         services.AddOptions<DaemonOptions>().Bind(configuration.GetSection(DaemonOptions.Section)).ValidateDataAnnotations().ValidateOnStart();
-        services.AddOptions<HealthOptions>().Bind(configuration.GetSection(HealthOptions.Section)).ValidateDataAnnotations().ValidateOnStart();
+        services.AddOptions<HttpOptions>().Bind(configuration.GetSection(HttpOptions.Section)).ValidateDataAnnotations().ValidateOnStart();
         services.AddOptions<RetentionOptions>().Bind(configuration.GetSection(RetentionOptions.Section)).ValidateDataAnnotations().ValidateOnStart();
         services.AddOptions<TelemetryOptions>().Bind(configuration.GetSection(TelemetryOptions.Section)).ValidateDataAnnotations().ValidateOnStart();
         services.AddOptions<SpecsOptions>().Bind(configuration.GetSection(SpecsOptions.Section));
@@ -63,13 +63,18 @@ public static class DaemonServiceCollectionExtensions
         services.TryAddSingleton<NotificationWakeup>();
         services.AddHttpClient<WebhookSender>();
         services.AddMetrics();
+        services.AddHealthChecks()
+            .AddCheck<LoopHealthCheck>(LoopHealthCheck.Name, tags: [HttpEndpoint.LiveTag])
+            .AddCheck<StateDatabaseHealthCheck>(StateDatabaseHealthCheck.Name, tags: [HttpEndpoint.ReadyTag], timeout: TimeSpan.FromSeconds(10))
+            .AddCheck<SourcesHealthCheck>(SourcesHealthCheck.Name, tags: [HttpEndpoint.ReadyTag], timeout: TimeSpan.FromSeconds(10));
         services.TryAddSingleton<ModelWatchMetrics>();
         services.TryAddSingleton(sp => new AlertEventPipeline(
             o =>
             {
-                if (OtlpConfigured(configuration))
+                o.SetResourceBuilder(TelemetryResource.Configure(ResourceBuilder.CreateDefault(), configuration, sp.GetRequiredService<IOptions<DaemonOptions>>().Value.WorkerId));
+                if (OtlpSettings.Configured(configuration))
                 {
-                    o.AddOtlpExporter();
+                    o.AddOtlpExporter(exporter => OtlpSettings.ApplyToLogs(exporter, configuration));
                 }
             },
             sp.GetRequiredService<ILoggerFactory>()));
@@ -77,20 +82,23 @@ public static class DaemonServiceCollectionExtensions
 
         services.AddHostedService<SchedulerService>();
         services.AddHostedService<NotificationDispatcher>();
-        services.AddHostedService<HealthEndpoint>();
         services.AddHostedService<SpecDirectorySync>();
         services.AddHostedService<RetentionService>();
         services.AddModelWatchTelemetry(configuration);
         return services;
     }
 
-    /// <summary>Metrics and traces through the OpenTelemetry SDK, exported by OTLP when an endpoint is configured.</summary>
+    /// <summary>
+    /// Metrics and traces through the OpenTelemetry SDK, exported by OTLP when an endpoint is configured and scraped by
+    /// Prometheus when enabled; one resource for every signal (<see cref="TelemetryResource"/>); traces only of runs.
+    /// </summary>
     public static IServiceCollection AddModelWatchTelemetry(this IServiceCollection services, IConfiguration configuration)
     {
         ArgumentNullException.ThrowIfNull(configuration);
         var telemetry = configuration.GetSection(TelemetryOptions.Section).Get<TelemetryOptions>() ?? new TelemetryOptions();
+        string worker = configuration[$"{DaemonOptions.Section}:{nameof(DaemonOptions.WorkerId)}"] is { Length: > 0 } w ? w : new DaemonOptions().WorkerId;
         var builder = services.AddOpenTelemetry()
-            .ConfigureResource(r => r.AddService("modelwatch"))
+            .ConfigureResource(r => TelemetryResource.Configure(r, configuration, worker))
             .WithMetrics(m =>
             {
                 m.AddMeter(TelemetryNames.Source).AddNpgsqlInstrumentation();
@@ -99,22 +107,15 @@ public static class DaemonServiceCollectionExtensions
                     : null);
                 if (telemetry.PrometheusEnabled)
                 {
-                    m.AddPrometheusHttpListener(o =>
-                    {
-                        o.Host = telemetry.PrometheusHost;
-                        o.Port = telemetry.PrometheusPort;
-                    });
+                    m.AddPrometheusExporter();
                 }
             })
-            .WithTracing(t => t.AddSource(TelemetryNames.Source).AddNpgsql());
-        if (OtlpConfigured(configuration))
+            .WithTracing(t => t.AddSource(TelemetryNames.Source).AddNpgsql().SetSampler(new ParentBasedSampler(new RunSpansOnlySampler())));
+        if (OtlpSettings.Configured(configuration))
         {
             builder.UseOtlpExporter();
         }
 
         return services;
     }
-
-    private static bool OtlpConfigured(IConfiguration configuration) =>
-        !string.IsNullOrWhiteSpace(configuration["OTEL_EXPORTER_OTLP_ENDPOINT"]);
 }

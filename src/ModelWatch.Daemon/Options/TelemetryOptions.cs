@@ -11,16 +11,8 @@ public sealed class TelemetryOptions
     /// <summary>The configuration section.</summary>
     public const string Section = "Telemetry";
 
-    /// <summary>Serve a Prometheus scrape endpoint (unauthenticated; meant for local use). Default false.</summary>
+    /// <summary>Serve the Prometheus scrape at <c>/metrics</c> on the HTTP endpoint (needs <c>Http:Enabled</c>; unauthenticated). Default false.</summary>
     public bool PrometheusEnabled { get; set; }
-
-    /// <summary>Host of the scrape endpoint. Default localhost.</summary>
-    [Required]
-    public string PrometheusHost { get; set; } = "localhost";
-
-    /// <summary>Port of the scrape endpoint. Default 9464.</summary>
-    [Range(1, 65535)]
-    public int PrometheusPort { get; set; } = 9464;
 
     /// <summary>
     /// Attribute combinations kept per metric. OpenTelemetry's default of 2,000 is too few for per-model gauges with

@@ -38,6 +38,21 @@ public sealed class LeaseRepository(NpgsqlDataSource state, TimeSpan commandTime
         return rows.ToList();
     }
 
+    /// <summary>
+    /// Extends this worker's live lease on a model to <paramref name="now"/> + <paramref name="lease"/> while its run is
+    /// in progress; false when the lease is no longer this worker's (it expired and another replica took the model).
+    /// </summary>
+    public async Task<bool> RenewAsync(string worker, string key, DateTimeOffset now, TimeSpan lease, CancellationToken cancellationToken)
+    {
+        await using NpgsqlConnection connection = await state.OpenConnectionAsync(cancellationToken);
+        int renewed = await connection.ExecuteAsync(new CommandDefinition(
+            "UPDATE modelwatch.model SET lease_expires_at = @expires WHERE key = @key AND lease_owner = @worker AND lease_expires_at > @now",
+            new { worker, key, now, expires = now + lease },
+            commandTimeout: Seconds,
+            cancellationToken: cancellationToken));
+        return renewed > 0;
+    }
+
     /// <summary>Releases this worker's leases (on shutdown), so another replica can take the models at once.</summary>
     public async Task<int> ReleaseAllAsync(string worker, CancellationToken cancellationToken)
     {

@@ -3,7 +3,7 @@ using Dapper;
 using ModelWatch.Checks.Findings;
 using ModelWatch.Checks.Policy;
 using ModelWatch.Daemon.Alerts;
-using ModelWatch.Daemon.Execution;
+using ModelWatch.Daemon.Runs;
 using Npgsql;
 
 namespace ModelWatch.Daemon.Persistence;
@@ -75,7 +75,7 @@ public sealed class RunRecorder(NpgsqlDataSource state, TimeSpan commandTimeout)
             outcome.RowsRead,
             outcome.RowsRejected,
             RejectedReasons = JsonSerializer.Serialize(outcome.RejectedReasons),
-            outcome.Status,
+            Status = outcome.Status.Name(),
             outcome.Reason,
             StageTimings = JsonSerializer.Serialize(outcome.StageSeconds),
             Worker = worker,

@@ -1,4 +1,4 @@
-namespace ModelWatch.Daemon.Execution;
+namespace ModelWatch.Daemon.Runs;
 
 /// <summary>
 /// What a run remembers from the runs before it: the checks' sequential states, the alert policy's states and the

@@ -1,7 +1,7 @@
 using ModelWatch.Checks.Findings;
 using ModelWatch.Checks.Policy;
 
-namespace ModelWatch.Daemon.Execution;
+namespace ModelWatch.Daemon.Runs;
 
 /// <summary>
 /// Run memory held in process: a backtest carries the sequential and alert-policy states from window to window

@@ -1,7 +1,7 @@
 using ModelWatch.Checks.Findings;
 using ModelWatch.Checks.Policy;
 
-namespace ModelWatch.Daemon.Execution;
+namespace ModelWatch.Daemon.Runs;
 
 /// <summary>Everything one run produced, ready to be written in one transaction.</summary>
 public sealed record RunOutcome
@@ -12,8 +12,8 @@ public sealed record RunOutcome
     /// <summary>The schedule slot the run belongs to.</summary>
     public required DateTimeOffset Slot { get; init; }
 
-    /// <summary><c>ok</c>, <c>failed</c> or <c>skipped</c>.</summary>
-    public required string Status { get; init; }
+    /// <summary>How the run ended.</summary>
+    public required RunStatus Status { get; init; }
 
     /// <summary>Why the run failed or was skipped (null for ok).</summary>
     public string? Reason { get; init; }
@@ -51,8 +51,11 @@ public sealed record RunOutcome
     /// <summary>Alert policy decisions.</summary>
     public IReadOnlyList<AlertDecision> Decisions { get; init; } = [];
 
-    /// <summary>Latest values for the per-model gauges (alert counts are filled in after recording).</summary>
-    public ModelWatch.Daemon.Telemetry.ModelGaugeValues? Gauges { get; init; }
+    /// <summary>What the window measured for the per-model gauges (null when the run measured nothing).</summary>
+    public RunMeasurements? Measurements { get; init; }
+
+    /// <summary>The time of the newest row the source delivered in the window, or null.</summary>
+    public DateTimeOffset? NewestRowTime { get; init; }
 
     /// <summary>The failure's class for the <c>error.type</c> attribute (an SQLSTATE or exception name).</summary>
     public string? ErrorType { get; init; }

@@ -1,7 +1,7 @@
 using ModelWatch.Checks.Findings;
 using ModelWatch.Checks.Policy;
 
-namespace ModelWatch.Daemon.Execution;
+namespace ModelWatch.Daemon.Runs;
 
 /// <summary>What a run takes over from the runs before it (see <see cref="IRunMemory"/>).</summary>
 /// <param name="Checks">The checks' sequential states by check name (a check without one starts fresh).</param>

@@ -1,3 +1,5 @@
+using System.Diagnostics;
+using System.Globalization;
 using Microsoft.Extensions.Hosting;
 using Microsoft.Extensions.Logging;
 using Microsoft.Extensions.Options;
@@ -5,6 +7,8 @@ using ModelWatch.Daemon.Execution;
 using ModelWatch.Daemon.Health;
 using ModelWatch.Daemon.Options;
 using ModelWatch.Daemon.Persistence;
+using ModelWatch.Daemon.Runs;
+using ModelWatch.Daemon.Telemetry;
 using ModelWatch.Store.Migrations;
 using ModelWatch.Store.Models;
 using ModelWatch.Store.Specs;
@@ -127,6 +131,11 @@ public sealed partial class SchedulerService(
     private async Task RunClaimedAsync(ClaimedModel claim, CancellationToken cancellationToken)
     {
         DaemonOptions settings = options.Value;
+        DateTimeOffset slot = claim.Slot;
+        using var leaseLost = new CancellationTokenSource();
+        using var run = CancellationTokenSource.CreateLinkedTokenSource(cancellationToken, leaseLost.Token);
+        using var renewal = new CancellationTokenSource();
+        Task renewing = Task.CompletedTask;
         try
         {
             ModelRecord? model = await models.GetAsync(claim.Key, cancellationToken);
@@ -137,22 +146,69 @@ public sealed partial class SchedulerService(
             }
 
             SlotPlan plan = SlotPlanner.Plan(model.Spec.Schedule, claim.Slot, time.GetUtcNow(), settings.MissedSlots, settings.MaxCatchUpSlots);
+            slot = plan.RunSlot;
             if (plan.PassedOver > 0)
             {
-                LogPassedOver(logger, claim.Key, plan.PassedOver, plan.RunSlot);
+                LogPassedOver(logger, claim.Key, plan.PassedOver, claim.Slot, plan.RunSlot, settings.MissedSlots);
             }
 
-            RunOutcome outcome = await pipeline.ExecuteAsync(model, plan.RunSlot, cancellationToken);
-            await completion.CompleteAsync(model, outcome, plan.NextDue, cancellationToken);
+            // A run may outlast its lease (a slow query): the lease is extended while it runs, so no other replica takes
+            // the model meanwhile; if it is lost all the same, the run stops rather than race the new owner.
+            renewing = RenewWhileRunningAsync(claim.Key, plan.RunSlot, settings, leaseLost, renewal.Token);
+
+            // One trace per run: the read, fit, checks and persist spans, the database calls and the alert events it
+            // emits all carry its trace id.
+            using Activity? activity = ModelWatchActivitySource.Instance.StartActivity("modelwatch.run");
+            activity?.SetTag(TelemetryNames.ModelTag, claim.Key);
+            activity?.SetTag("modelwatch.slot", plan.RunSlot.ToString("O", CultureInfo.InvariantCulture));
+            RunOutcome outcome = await pipeline.ExecuteAsync(model, plan.RunSlot, run.Token);
+            activity?.SetTag(TelemetryNames.StatusTag, outcome.Status.Name());
+            await completion.CompleteAsync(model, outcome, plan.NextDue, run.Token);
+        }
+        catch (OperationCanceledException) when (leaseLost.IsCancellationRequested && !cancellationToken.IsCancellationRequested)
+        {
+            LogLeaseLostMidRun(logger, claim.Key, slot);
         }
         catch (OperationCanceledException) when (cancellationToken.IsCancellationRequested)
         {
-            LogAbandoned(logger, claim.Key, claim.Slot);
+            LogAbandoned(logger, claim.Key, slot, settings.MissedSlots);
         }
         catch (Exception ex) when (ex is not OutOfMemoryException)
         {
-            // The lease expires and the slot is retried; the unique (model, slot) key keeps it from running twice.
-            LogRunCrashed(logger, ex, claim.Key, claim.Slot);
+            // Nothing was recorded: the model stays due from its claimed slot and is claimed again when the lease expires;
+            // the missed-slot policy then decides whether this slot runs again or is passed over for a later one.
+            LogRunCrashed(logger, ex, claim.Key, slot, time.GetUtcNow() + settings.LeaseDuration, settings.MissedSlots);
+        }
+        finally
+        {
+            await renewal.CancelAsync();
+            await renewing;
+        }
+    }
+
+    private async Task RenewWhileRunningAsync(string key, DateTimeOffset slot, DaemonOptions settings, CancellationTokenSource leaseLost, CancellationToken stop)
+    {
+        TimeSpan every = settings.LeaseDuration / 3;
+        while (!stop.IsCancellationRequested)
+        {
+            try
+            {
+                await Task.Delay(every, time, stop);
+                if (!await leases.RenewAsync(settings.WorkerId, key, time.GetUtcNow(), settings.LeaseDuration, stop))
+                {
+                    await leaseLost.CancelAsync();
+                    return;
+                }
+            }
+            catch (OperationCanceledException) when (stop.IsCancellationRequested)
+            {
+                return;
+            }
+            catch (Exception ex) when (ex is NpgsqlException or TimeoutException or System.Net.Sockets.SocketException)
+            {
+                // The lease may still be live; the next attempt, a third of a lease later, may get through.
+                LogRenewFailed(logger, key, slot, ex.Message);
+            }
         }
     }
 
@@ -258,14 +314,20 @@ public sealed partial class SchedulerService(
     [LoggerMessage(EventId = 1003, Level = LogLevel.Warning, Message = "State database unavailable ({Problem}); retrying in {Seconds:F1} s")]
     private static partial void LogDatabaseUnavailable(ILogger logger, string problem, double seconds);
 
-    [LoggerMessage(EventId = 1004, Level = LogLevel.Information, Message = "Model {Model}: {Count} missed slot(s) passed over; running slot {Slot:O}")]
-    private static partial void LogPassedOver(ILogger logger, string model, int count, DateTimeOffset slot);
+    [LoggerMessage(EventId = 1004, Level = LogLevel.Information, Message = "Model {Model}: {Count} missed slot(s) from {DueSlot:O} passed over under MissedSlots={Policy}; running slot {Slot:O}")]
+    private static partial void LogPassedOver(ILogger logger, string model, int count, DateTimeOffset dueSlot, DateTimeOffset slot, MissedSlotPolicy policy);
 
-    [LoggerMessage(EventId = 1005, Level = LogLevel.Warning, Message = "Model {Model}: run for slot {Slot:O} abandoned at shutdown; its lease will expire")]
-    private static partial void LogAbandoned(ILogger logger, string model, DateTimeOffset slot);
+    [LoggerMessage(EventId = 1005, Level = LogLevel.Warning, Message = "Model {Model}: run for slot {Slot:O} abandoned at shutdown, nothing recorded; the next replica to claim the model applies MissedSlots={Policy} to it")]
+    private static partial void LogAbandoned(ILogger logger, string model, DateTimeOffset slot, MissedSlotPolicy policy);
 
-    [LoggerMessage(EventId = 1006, Level = LogLevel.Error, Message = "Model {Model}: run for slot {Slot:O} could not be recorded; it will be retried after the lease expires")]
-    private static partial void LogRunCrashed(ILogger logger, Exception exception, string model, DateTimeOffset slot);
+    [LoggerMessage(EventId = 1006, Level = LogLevel.Error, Message = "Model {Model}: run for slot {Slot:O} could not be recorded; the model is claimed again after its lease expires ({Expires:O}) and MissedSlots={Policy} decides whether this slot runs then")]
+    private static partial void LogRunCrashed(ILogger logger, Exception exception, string model, DateTimeOffset slot, DateTimeOffset expires, MissedSlotPolicy policy);
+
+    [LoggerMessage(EventId = 1010, Level = LogLevel.Warning, Message = "Model {Model}: lease lost during the run for slot {Slot:O} (another replica owns the model now); the run stopped, nothing recorded")]
+    private static partial void LogLeaseLostMidRun(ILogger logger, string model, DateTimeOffset slot);
+
+    [LoggerMessage(EventId = 1011, Level = LogLevel.Warning, Message = "Model {Model}: the lease of the run for slot {Slot:O} could not be renewed ({Problem}); trying again")]
+    private static partial void LogRenewFailed(ILogger logger, string model, DateTimeOffset slot, string problem);
 
     [LoggerMessage(EventId = 1007, Level = LogLevel.Information, Message = "Worker {WorkerId} stopped; {Released} lease(s) released")]
     private static partial void LogStopped(ILogger logger, string workerId, int released);

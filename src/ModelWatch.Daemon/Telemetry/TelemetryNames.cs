@@ -40,6 +40,21 @@ public static class TelemetryNames
     /// <summary>Gauge: open (unresolved) alerts by severity.</summary>
     public const string OpenAlerts = "modelwatch.model.alerts.open";
 
+    /// <summary>Gauge: 1 while the source check's alert is open (the model is not being watched).</summary>
+    public const string SourceAlertOpen = "modelwatch.model.source_alert.open";
+
+    /// <summary>Gauge: failed runs in a row.</summary>
+    public const string ConsecutiveFailures = "modelwatch.model.consecutive_failures";
+
+    /// <summary>Gauge: seconds since the newest row the source delivered.</summary>
+    public const string DataAge = "modelwatch.model.data.age";
+
+    /// <summary>Gauge: seconds since the latest recorded run.</summary>
+    public const string LastRunAge = "modelwatch.model.last_run.age";
+
+    /// <summary>Gauge: the schedule's period.</summary>
+    public const string SchedulePeriod = "modelwatch.model.schedule.period";
+
     /// <summary>Attribute: the model key.</summary>
     public const string ModelTag = "modelwatch.model";
 

@@ -13,7 +13,7 @@ public sealed class RunbookDocsTests
         string runbook = docs[docs.IndexOf("## Runbook", StringComparison.Ordinal)..];
 
         Assert.Contains(RunbookHints.Caution, runbook, StringComparison.Ordinal);
-        Assert.Equal(["data", "serving", "coefficients", "collinearity", "residuals", "error", "features"], RunbookHints.All.Select(h => h.Check));
+        Assert.Equal(["source", "data", "serving", "coefficients", "collinearity", "residuals", "error", "features"], RunbookHints.All.Select(h => h.Check));
         foreach (RunbookEntry hint in RunbookHints.All)
         {
             Assert.Contains($"### `{hint.Check}`", runbook, StringComparison.Ordinal);

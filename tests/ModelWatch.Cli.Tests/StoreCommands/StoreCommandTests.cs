@@ -82,7 +82,7 @@ public sealed class StoreCommandTests(PostgresDatabase database) : IClassFixture
     }
 
     [Theory]
-    [InlineData("checks:\n  drift:\n    alpha: 0.01", "checks.drift: unknown check 'drift' (checks: data, serving, coefficients")]
+    [InlineData("checks:\n  drift:\n    alpha: 0.01", "checks.drift: unknown check 'drift' (checks: source, data, serving, coefficients")]
     [InlineData("checks:\n  coefficients:\n    alpha: 0.01", "checks.coefficients: unknown setting 'alpha'")]
     [InlineData("checks:\n  coefficients:\n    psi_warning: 0.2", "checks.coefficients: 'psi_warning' is a setting of the features check; write it under checks.features")]
     [InlineData("checks:\n  coefficients:\n    drift_impact_floor: lots", "checks.coefficients: drift_impact_floor: 'lots' is not a finite number")]

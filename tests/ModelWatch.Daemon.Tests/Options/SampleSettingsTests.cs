@@ -24,7 +24,9 @@ public sealed class SampleSettingsTests
         Assert.Equal(TimeSpan.FromMinutes(10), daemon.LeaseDuration);
         Assert.Equal("critical", notifications.Targets["courier-oncall"].MinimumSeverity);
         Assert.Equal(TimeSpan.FromDays(180), services.GetRequiredService<IOptions<RetentionOptions>>().Value.RunMaxAge);
-        Assert.False(services.GetRequiredService<IOptions<HealthOptions>>().Value.Enabled);
+        Assert.False(services.GetRequiredService<IOptions<HttpOptions>>().Value.Enabled);
+        Assert.Empty(DaemonSettings.Audit(configuration).Problems);
+        Assert.Empty(DaemonSettings.Audit(configuration).Warnings);
     }
 
     [Fact]

@@ -2,6 +2,7 @@ using Microsoft.Extensions.DependencyInjection;
 using Microsoft.Extensions.Time.Testing;
 using ModelWatch.Daemon.Execution;
 using ModelWatch.Daemon.Persistence;
+using ModelWatch.Daemon.Runs;
 using ModelWatch.Daemon.Tests.Support;
 using ModelWatch.Testing.Postgres;
 
@@ -35,9 +36,29 @@ public sealed class FaultToleranceTests(PostgresDatabase database) : IClassFixtu
             await DaemonTestData.StepToAsync(time, DaemonTestData.ReferenceEnd.AddHours(hour), database.DataSource, "SELECT count(*) FROM modelwatch.run WHERE model_key IN ('broken-sql', 'healthy-one', 'healthy-two')", 3 * hour);
         }
 
-        await daemon.StopAsync();
         Assert.Equal(4, await DaemonTestData.ScalarAsync(database.DataSource, "SELECT count(*) FROM modelwatch.run WHERE model_key = 'broken-sql' AND status = 'failed' AND reason LIKE '%shipments_gone%'"));
         Assert.Equal(8, await DaemonTestData.ScalarAsync(database.DataSource, "SELECT count(*) FROM modelwatch.run WHERE model_key LIKE 'healthy-%' AND status = 'ok'"));
+
+        // Nobody is left to learn it from a log line: the third failure in a row opens the source alert (critical, at once),
+        // naming the model and the last error; the healthy models have none.
+        Assert.Equal(1, await DaemonTestData.ScalarAsync(database.DataSource, "SELECT count(*) FROM modelwatch.alert WHERE model_key = 'broken-sql' AND check_name = 'source' AND severity = 'critical' AND state = 'open'"));
+        Assert.Equal(0, await DaemonTestData.ScalarAsync(database.DataSource, "SELECT count(*) FROM modelwatch.alert WHERE model_key LIKE 'healthy-%' AND check_name = 'source'"));
+        Assert.Equal(1, await DaemonTestData.ScalarAsync(database.DataSource, """
+            SELECT count(*)
+              FROM modelwatch.alert_event e JOIN modelwatch.run r ON r.id = e.run_id
+             WHERE e.transition = 'opened' AND r.model_key = 'broken-sql'
+               AND r.slot = (SELECT min(slot) FROM modelwatch.run WHERE model_key = 'broken-sql') + interval '2 hours'
+               AND e.explanation LIKE '3 runs in a row failed since %; model broken-sql is not being watched; last error: %shipments_gone%'
+               AND e.statistic = 'failed_runs' AND e.value = 3 AND e.threshold = 3
+            """));
+        Assert.Equal(4, await DaemonTestData.ScalarAsync(database.DataSource, "SELECT count(*) FROM modelwatch.finding f JOIN modelwatch.run r ON r.id = f.run_id WHERE r.model_key = 'broken-sql' AND f.check_name = 'source'"));
+
+        // The query is fixed: the first run that reads its window resolves the alert.
+        await DaemonTestData.ApplyQueryAsync(database, time, "broken-sql", "SELECT shipped_at, distance_km, stops, weight_kg, minutes FROM shipments WHERE shipped_at >= @window_start AND shipped_at < @window_end");
+        await DaemonTestData.StepToAsync(time, DaemonTestData.ReferenceEnd.AddHours(5), database.DataSource, "SELECT count(*) FROM modelwatch.run WHERE model_key IN ('broken-sql', 'healthy-one', 'healthy-two')", 15);
+        await daemon.StopAsync();
+        Assert.Equal("ok", await DaemonTestData.TextAsync(database.DataSource, "SELECT status FROM modelwatch.run WHERE model_key = 'broken-sql' ORDER BY slot DESC LIMIT 1"));
+        Assert.Equal(1, await DaemonTestData.ScalarAsync(database.DataSource, "SELECT count(*) FROM modelwatch.alert WHERE model_key = 'broken-sql' AND check_name = 'source' AND state = 'resolved' AND resolved_by LIKE 'daemon:%'"));
     }
 
     [Fact]
@@ -62,13 +83,47 @@ public sealed class FaultToleranceTests(PostgresDatabase database) : IClassFixtu
         // The killed replica comes back and tries to record the same slot: its lease is gone, nothing is written.
         var recorder = new RunRecorder(database.DataSource, DaemonTestData.CommandTimeout);
         RecordedRun late = await recorder.RecordAsync(
-            new RunOutcome { ModelKey = "takeover", Slot = ghost.Single(c => c.Key == "takeover").Slot, Status = "ok", StartedAt = time.GetUtcNow() },
+            new RunOutcome { ModelKey = "takeover", Slot = ghost.Single(c => c.Key == "takeover").Slot, Status = RunStatus.Ok, StartedAt = time.GetUtcNow() },
             "killed-replica", time.GetUtcNow().AddHours(1), time.GetUtcNow(), CancellationToken.None);
         await survivor.StopAsync();
 
         Assert.True(late.LeaseLost);
         Assert.Equal(1, await DaemonTestData.ScalarAsync(database.DataSource, "SELECT count(*) FROM modelwatch.run WHERE model_key = 'takeover'"));
         Assert.Equal(1, await DaemonTestData.ScalarAsync(database.DataSource, "SELECT count(*) FROM modelwatch.run WHERE model_key = 'takeover' AND worker_id = 'survivor'"));
+    }
+
+    [Theory]
+    [InlineData("LatestOnly", 1)]
+    [InlineData("CatchUp", 4)]
+    public async Task A_killed_replicas_slot_goes_to_the_missed_slot_policy_and_the_log_names_it(string policy, int runs)
+    {
+        var time = new FakeTimeProvider(DaemonTestData.ReferenceEnd);
+        string key = "killed-" + policy.ToLowerInvariant();
+        await DaemonTestData.RegisterAsync(database, time, key);
+        var leases = new LeaseRepository(database.DataSource, DaemonTestData.CommandTimeout);
+        time.Advance(TimeSpan.FromHours(1));
+        IReadOnlyList<ClaimedModel> ghost = await leases.ClaimDueAsync("killed-" + policy, time.GetUtcNow(), TimeSpan.FromMinutes(10), 10, CancellationToken.None);
+        DateTimeOffset killedSlot = ghost.Single(c => c.Key == key).Slot;
+
+        // The replica died with the claim; nobody runs for three hours.
+        time.Advance(TimeSpan.FromHours(3));
+        await using var survivor = new DaemonInstance(database, time, "after-" + policy, concurrency: 1, new Dictionary<string, string?> { ["Daemon:MissedSlots"] = policy });
+        await survivor.StartAsync();
+        await DaemonTestData.StepToAsync(time, time.GetUtcNow(), database.DataSource, $"SELECT count(*) FROM modelwatch.run WHERE model_key = '{key}'", runs);
+        await survivor.StopAsync();
+
+        string slots = await DaemonTestData.TextAsync(database.DataSource, $"SELECT string_agg(to_char(slot AT TIME ZONE 'UTC', 'HH24:MI'), ',' ORDER BY slot) FROM modelwatch.run WHERE model_key = '{key}'") ?? string.Empty;
+        if (policy == "CatchUp")
+        {
+            // The killed slot is run after all, then the ones missed since.
+            Assert.Equal("01:00,02:00,03:00,04:00", slots);
+        }
+        else
+        {
+            Assert.Equal("04:00", slots);
+            string passed = Assert.Single(survivor.Logs.Records, r => r.EventId == 1004).Message;
+            Assert.Contains($"Model {key}: 3 missed slot(s) from {killedSlot:O} passed over under MissedSlots=LatestOnly; running slot {killedSlot.AddHours(3):O}", passed, StringComparison.Ordinal);
+        }
     }
 
     [Fact]

@@ -3,6 +3,7 @@ using ModelWatch.Checks.Findings;
 using ModelWatch.Checks.Policy;
 using ModelWatch.Daemon.Execution;
 using ModelWatch.Daemon.Persistence;
+using ModelWatch.Daemon.Runs;
 using ModelWatch.Store.Baselines;
 using ModelWatch.Store.Configuration;
 using ModelWatch.Store.Migrations;
@@ -107,12 +108,18 @@ internal static class DaemonTestData
 
         var recorder = new RunRecorder(database.DataSource, CommandTimeout);
         return await recorder.RecordAsync(
-            new RunOutcome { ModelKey = key, Slot = slot, Status = "ok", StartedAt = slot, Results = results, Decisions = decisions },
+            new RunOutcome { ModelKey = key, Slot = slot, Status = RunStatus.Ok, StartedAt = slot, Results = results, Decisions = decisions },
             worker, slot.AddHours(1), slot.AddMinutes(1), CancellationToken.None);
     }
 
     public static StoreDataSources DataSources(string connectionString) =>
         new(new ConfigurationBuilder().AddInMemoryCollection(new Dictionary<string, string?> { [ConnectionSettings.StateKey] = connectionString }).Build());
+
+    public static async Task<string?> TextAsync(NpgsqlDataSource source, string sql)
+    {
+        await using NpgsqlCommand command = source.CreateCommand(sql);
+        return (string?)await command.ExecuteScalarAsync();
+    }
 
     public static async Task<long> ScalarAsync(NpgsqlDataSource source, string sql)
     {

@@ -2,6 +2,7 @@ using Microsoft.Extensions.DependencyInjection;
 using Microsoft.Extensions.Logging;
 using ModelWatch.Daemon.Alerts;
 using ModelWatch.Daemon.Hosting;
+using ModelWatch.Daemon.Runs;
 using ModelWatch.Daemon.Telemetry;
 using OpenTelemetry;
 using OpenTelemetry.Logs;
@@ -20,10 +21,10 @@ public sealed class ModelWatchMetricsTests
             .AddMeter(TelemetryNames.Source)
             .AddInMemoryExporter(exported)
             .Build();
-        var metrics = new ModelWatchMetrics(services.GetRequiredService<System.Diagnostics.Metrics.IMeterFactory>());
+        var metrics = new ModelWatchMetrics(services.GetRequiredService<System.Diagnostics.Metrics.IMeterFactory>(), TimeProvider.System);
 
-        metrics.Update("gauge-courier", new ModelGaugeValues(1.31, 12.5, 4.2, 0.08, 1, 0));
-        metrics.Update("gauge-bakery", new ModelGaugeValues(0.98, 7.1, 0.6, 0.02, 0, 0));
+        metrics.Update("gauge-courier", Values(new RunMeasurements(1.31, 12.5, 4.2, 0.08), warnings: 1));
+        metrics.Update("gauge-bakery", Values(new RunMeasurements(0.98, 7.1, 0.6, 0.02)));
         provider.ForceFlush();
         Assert.Equal(2, Points(exported, TelemetryNames.RmseRatio).Count);
         Assert.Equal(1.31, Points(exported, TelemetryNames.RmseRatio).Single(p => Model(p) == "gauge-courier").GetGaugeLastValueDouble());
@@ -36,15 +37,48 @@ public sealed class ModelWatchMetricsTests
     }
 
     [Fact]
+    public void A_gauge_holds_its_last_value_until_a_run_that_measures_it_replaces_it()
+    {
+        using ServiceProvider services = new ServiceCollection().AddMetrics().BuildServiceProvider();
+        var exported = new List<Metric>();
+        using MeterProvider provider = Sdk.CreateMeterProviderBuilder().AddMeter(TelemetryNames.Source).AddInMemoryExporter(exported).Build();
+        var time = new Microsoft.Extensions.Time.Testing.FakeTimeProvider(new DateTimeOffset(2026, 12, 1, 0, 0, 0, TimeSpan.Zero));
+        var metrics = new ModelWatchMetrics(services.GetRequiredService<System.Diagnostics.Metrics.IMeterFactory>(), time);
+        DateTimeOffset newest = time.GetUtcNow().AddHours(-2);
+
+        metrics.Update("gauge-courier", Values(new RunMeasurements(1.31, 12.5, 4.2, 0.08), failures: 0, newest: newest, lastRun: time.GetUtcNow()));
+
+        // A failed run measures nothing: the measured gauges keep their values; the failure count and run age move on.
+        time.Advance(TimeSpan.FromHours(6));
+        metrics.Update("gauge-courier", Values(ModelGaugeValues.NotMeasured, failures: 1, lastRun: time.GetUtcNow()));
+        time.Advance(TimeSpan.FromMinutes(30));
+        provider.ForceFlush();
+
+        Assert.Equal(0.08, Points(exported, TelemetryNames.MaxPsi).Single().GetGaugeLastValueDouble());
+        Assert.Equal(4.2, Points(exported, TelemetryNames.MaxCoefficientZ).Single().GetGaugeLastValueDouble());
+        Assert.Equal(1.0, Points(exported, TelemetryNames.ConsecutiveFailures).Single().GetGaugeLastValueDouble());
+        Assert.Equal(TimeSpan.FromHours(8.5).TotalSeconds, Points(exported, TelemetryNames.DataAge).Single().GetGaugeLastValueDouble(), 6);
+        Assert.Equal(TimeSpan.FromMinutes(30).TotalSeconds, Points(exported, TelemetryNames.LastRunAge).Single().GetGaugeLastValueDouble(), 6);
+        Assert.Equal(TimeSpan.FromHours(6).TotalSeconds, Points(exported, TelemetryNames.SchedulePeriod).Single().GetGaugeLastValueDouble());
+
+        // The next run that tests the features replaces the value.
+        exported.Clear();
+        metrics.Update("gauge-courier", Values(new RunMeasurements(double.NaN, double.NaN, double.NaN, 0.31), failures: 0, lastRun: time.GetUtcNow()));
+        provider.ForceFlush();
+        Assert.Equal(0.31, Points(exported, TelemetryNames.MaxPsi).Single().GetGaugeLastValueDouble());
+        Assert.Equal(0.0, Points(exported, TelemetryNames.ConsecutiveFailures).Single().GetGaugeLastValueDouble());
+    }
+
+    [Fact]
     public void Runs_are_counted_by_outcome_with_durations_in_seconds()
     {
         using ServiceProvider services = new ServiceCollection().AddMetrics().BuildServiceProvider();
         var exported = new List<Metric>();
         using MeterProvider provider = Sdk.CreateMeterProviderBuilder().AddMeter(TelemetryNames.Source).AddInMemoryExporter(exported).Build();
-        var metrics = new ModelWatchMetrics(services.GetRequiredService<System.Diagnostics.Metrics.IMeterFactory>());
+        var metrics = new ModelWatchMetrics(services.GetRequiredService<System.Diagnostics.Metrics.IMeterFactory>(), TimeProvider.System);
 
-        metrics.RecordRun("counted-courier", "ok", TimeSpan.FromMilliseconds(250), 1200, 3);
-        metrics.RecordRun("counted-courier", "failed", TimeSpan.FromSeconds(2), 0, 0, "57014");
+        metrics.RecordRun("counted-courier", RunStatus.Ok, TimeSpan.FromMilliseconds(250), 1200, 3);
+        metrics.RecordRun("counted-courier", RunStatus.Failed, TimeSpan.FromSeconds(2), 0, 0, "57014");
         provider.ForceFlush();
 
         Assert.Equal("{run}", exported.First(m => m.Name == TelemetryNames.Runs).Unit);
@@ -111,6 +145,9 @@ public sealed class ModelWatchMetricsTests
 
         return string.Empty;
     }
+
+    private static ModelGaugeValues Values(RunMeasurements measured, int warnings = 0, int? failures = null, DateTimeOffset? newest = null, DateTimeOffset? lastRun = null) =>
+        new(measured, warnings, 0, false, failures, newest, lastRun ?? TimeProvider.System.GetUtcNow(), TimeSpan.FromHours(6));
 
     private static long SumLong(List<Metric> exported, string name) => Points(exported, name).Sum(p => p.GetSumLong());
 }

@@ -1,0 +1,8 @@
+namespace ModelWatch.Daemon.Runs;
+
+/// <summary>What one run measured for the per-model gauges; NaN where the run did not measure it.</summary>
+/// <param name="RmseRatio">Deployed RMSE on the window over the baseline residual SD.</param>
+/// <param name="ConditionNumber">Scaled condition number of the window's design.</param>
+/// <param name="MaxCoefficientZ">Largest |z| of a coefficient against the baseline.</param>
+/// <param name="MaxPsi">Largest population stability index over the features.</param>
+public sealed record RunMeasurements(double RmseRatio, double ConditionNumber, double MaxCoefficientZ, double MaxPsi);
