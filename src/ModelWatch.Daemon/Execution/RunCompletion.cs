@@ -6,6 +6,7 @@ using ModelWatch.Daemon.Notifications;
 using ModelWatch.Daemon.Options;
 using ModelWatch.Checks.Findings;
 using ModelWatch.Checks.Source;
+using ModelWatch.Daemon.Hosting;
 using ModelWatch.Daemon.Persistence;
 using ModelWatch.Daemon.Runs;
 using ModelWatch.Daemon.Telemetry;
@@ -21,7 +22,7 @@ namespace ModelWatch.Daemon.Execution;
 /// alert event is never sent for a transition that was rolled back. Called inside the run's span, so the persist span
 /// and the alert events carry the run's trace id.
 /// </summary>
-public sealed partial class RunCompletion(
+public sealed class RunCompletion(
     RunRecorder recorder,
     NpgsqlDataSource state,
     ModelWatchMetrics metrics,
@@ -53,13 +54,13 @@ public sealed partial class RunCompletion(
 
         if (recorded.LeaseLost)
         {
-            LogLeaseLost(logger, outcome.ModelKey, outcome.Slot);
+            DaemonLog.LogLeaseLost(logger, outcome.ModelKey, outcome.Slot);
             return recorded;
         }
 
         if (recorded.AlreadyRecorded)
         {
-            LogAlreadyRecorded(logger, outcome.ModelKey, outcome.Slot);
+            DaemonLog.LogAlreadyRecorded(logger, outcome.ModelKey, outcome.Slot);
             return recorded;
         }
 
@@ -87,7 +88,7 @@ public sealed partial class RunCompletion(
 
         metrics.Update(outcome.ModelKey, GaugesOf(outcome, _openAlerts.GetValueOrDefault(outcome.ModelKey), now, nextDue));
         string status = outcome.Status.Name();
-        LogRecorded(logger, outcome.ModelKey, outcome.Slot, status, outcome.Reason ?? "-", outcome.RowsRead, recorded.Transitions.Count);
+        DaemonLog.LogRecorded(logger, outcome.ModelKey, outcome.Slot, status, outcome.Reason ?? "-", outcome.RowsRead, recorded.Transitions.Count);
         return recorded;
     }
 
@@ -149,13 +150,4 @@ public sealed partial class RunCompletion(
 
         return counts;
     }
-
-    [LoggerMessage(EventId = 1301, Level = LogLevel.Warning, Message = "Model {Model}: lease lost before slot {Slot:O} was recorded; another replica owns it now, nothing was written")]
-    private static partial void LogLeaseLost(ILogger logger, string model, DateTimeOffset slot);
-
-    [LoggerMessage(EventId = 1302, Level = LogLevel.Information, Message = "Model {Model}: slot {Slot:O} was already recorded by another replica")]
-    private static partial void LogAlreadyRecorded(ILogger logger, string model, DateTimeOffset slot);
-
-    [LoggerMessage(EventId = 1303, Level = LogLevel.Information, Message = "Model {Model}: slot {Slot:O} {Status} ({Reason}); {Rows} row(s) read, {Transitions} alert transition(s)")]
-    private static partial void LogRecorded(ILogger logger, string model, DateTimeOffset slot, string status, string reason, long rows, int transitions);
 }

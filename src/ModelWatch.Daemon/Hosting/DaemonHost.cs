@@ -25,7 +25,7 @@ namespace ModelWatch.Daemon.Hosting;
 /// in UTC or compact JSON, plus OTLP when <c>OTEL_EXPORTER_OTLP_ENDPOINT</c> is set); systemd is notified when the
 /// daemon runs as a <c>Type=notify</c> unit.
 /// </summary>
-public static partial class DaemonHost
+public static class DaemonHost
 {
     /// <summary>Creates the host; <paramref name="configuration"/> and <paramref name="configure"/> let a caller (the demo, tests) adjust settings and services.</summary>
     /// <exception cref="DaemonConfigurationException">The configuration has problems (all are listed).</exception>
@@ -77,7 +77,7 @@ public static partial class DaemonHost
         ILogger logger = host.Services.GetRequiredService<ILoggerFactory>().CreateLogger("ModelWatch.Configuration");
         foreach (string warning in warnings)
         {
-            LogUnknownSetting(logger, warning);
+            DaemonLog.LogUnknownSetting(logger, warning);
         }
 
         return host;
@@ -153,7 +153,4 @@ public static partial class DaemonHost
                 }));
         }
     }
-
-    [LoggerMessage(EventId = 1009, Level = LogLevel.Warning, Message = "Configuration: {Warning}")]
-    private static partial void LogUnknownSetting(ILogger logger, string warning);
 }

@@ -3,6 +3,7 @@ using Microsoft.Extensions.Hosting;
 using Microsoft.Extensions.Logging;
 using Microsoft.Extensions.Options;
 using ModelWatch.Daemon.Alerts;
+using ModelWatch.Daemon.Hosting;
 using ModelWatch.Daemon.Options;
 using Npgsql;
 
@@ -17,7 +18,7 @@ namespace ModelWatch.Daemon.Notifications;
 /// row's outcome (<c>delivered</c>, <c>failed</c>, <c>skipped</c>) on the row. Delivery is at least once: a replica
 /// that dies between a target's 2xx and recording it leaves the row to be sent again, with the same <c>event_id</c>.
 /// </summary>
-public sealed partial class NotificationDispatcher(
+public sealed class NotificationDispatcher(
     NotificationWakeup wakeup,
     WebhookSender sender,
     NpgsqlDataSource state,
@@ -69,7 +70,7 @@ public sealed partial class NotificationDispatcher(
             catch (Exception ex) when (ex is not OperationCanceledException and not OutOfMemoryException)
             {
                 // The rows stay pending; their leases expire and the next poll (here or on another replica) tries again.
-                LogDispatchFailed(logger, ex);
+                DaemonLog.LogDispatchFailed(logger, ex);
             }
 
             try
@@ -132,7 +133,7 @@ public sealed partial class NotificationDispatcher(
     {
         if (!options.CurrentValue.Targets.TryGetValue(notification.Target, out NotificationTargetOptions? target))
         {
-            LogUnknownTarget(logger, notification.Target, alert.Model);
+            DaemonLog.LogUnknownTarget(logger, notification.Target, alert.Model);
             return ("skipped", "target not configured under Notifications:Targets");
         }
 
@@ -143,7 +144,7 @@ public sealed partial class NotificationDispatcher(
 
         if (await IsSilencedAsync(alert, cancellationToken))
         {
-            LogSilenced(logger, alert.AlertId, alert.Model, alert.Check);
+            DaemonLog.LogSilenced(logger, alert.AlertId, alert.Model, alert.Check);
             return ("skipped", "silenced");
         }
 
@@ -155,7 +156,7 @@ public sealed partial class NotificationDispatcher(
             return ("delivered", null);
         }
 
-        LogGaveUp(logger, notification.Target, alert.AlertId, attempts.Count, attempts[^1].Error ?? "unknown error");
+        DaemonLog.LogGaveUp(logger, notification.Target, alert.AlertId, attempts.Count, attempts[^1].Error ?? "unknown error");
         return ("failed", attempts[^1].Error);
     }
 
@@ -215,27 +216,12 @@ public sealed partial class NotificationDispatcher(
         }
         catch (Exception ex) when (ex is NpgsqlException or TimeoutException or OperationCanceledException)
         {
-            LogReleaseFailed(logger, ex.Message);
+            DaemonLog.LogNotificationReleaseFailed(logger, ex.Message);
         }
     }
 
     private static CommandDefinition Command(string sql, object? args, CancellationToken cancellationToken) =>
         new(sql, args, commandTimeout: 30, cancellationToken: cancellationToken);
-
-    [LoggerMessage(EventId = 1201, Level = LogLevel.Warning, Message = "Queued notifications could not be dispatched; they stay queued")]
-    private static partial void LogDispatchFailed(ILogger logger, Exception exception);
-
-    [LoggerMessage(EventId = 1202, Level = LogLevel.Information, Message = "Alert {AlertId} ({Model}/{Check}) is silenced; no notification sent")]
-    private static partial void LogSilenced(ILogger logger, long alertId, string model, string check);
-
-    [LoggerMessage(EventId = 1203, Level = LogLevel.Warning, Message = "Notification target {Target} named by model {Model} is not configured under Notifications:Targets")]
-    private static partial void LogUnknownTarget(ILogger logger, string target, string model);
-
-    [LoggerMessage(EventId = 1204, Level = LogLevel.Error, Message = "Target {Target} did not accept alert {AlertId} after {Attempts} attempt(s): {Error}")]
-    private static partial void LogGaveUp(ILogger logger, string target, long alertId, int attempts, string error);
-
-    [LoggerMessage(EventId = 1205, Level = LogLevel.Warning, Message = "Claimed notifications could not be handed back at shutdown ({Problem}); their leases expire by themselves")]
-    private static partial void LogReleaseFailed(ILogger logger, string problem);
 
     /// <summary>A pending notification this replica claimed.</summary>
     private sealed record ClaimedNotification(long Id, long EventId, string Target);

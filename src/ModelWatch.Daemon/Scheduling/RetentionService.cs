@@ -2,6 +2,7 @@ using Dapper;
 using Microsoft.Extensions.Hosting;
 using Microsoft.Extensions.Logging;
 using Microsoft.Extensions.Options;
+using ModelWatch.Daemon.Hosting;
 using ModelWatch.Daemon.Options;
 using Npgsql;
 
@@ -11,7 +12,7 @@ namespace ModelWatch.Daemon.Scheduling;
 /// Deletes runs (and, by cascade, their findings) older than <see cref="RetentionOptions.RunMaxAge"/> in small
 /// batches, so no statement holds locks for long. Alerts, their history and baselines are kept.
 /// </summary>
-public sealed partial class RetentionService(
+public sealed class RetentionService(
     NpgsqlDataSource state,
     IOptions<RetentionOptions> options,
     TimeProvider time,
@@ -38,7 +39,7 @@ public sealed partial class RetentionService(
             }
             catch (Exception ex) when (ex is NpgsqlException or TimeoutException)
             {
-                LogPruneFailed(logger, ex.Message);
+                DaemonLog.LogPruneFailed(logger, ex.Message);
                 await Task.Delay(TimeSpan.FromMinutes(5), time, stoppingToken).ContinueWith(_ => { }, TaskScheduler.Default);
             }
         }
@@ -61,15 +62,9 @@ public sealed partial class RetentionService(
 
         if (total > 0)
         {
-            LogPruned(logger, total, cutoff);
+            DaemonLog.LogPruned(logger, total, cutoff);
         }
 
         return total;
     }
-
-    [LoggerMessage(EventId = 1501, Level = LogLevel.Information, Message = "Retention: {Count} run(s) started before {Cutoff:O} pruned with their findings")]
-    private static partial void LogPruned(ILogger logger, long count, DateTimeOffset cutoff);
-
-    [LoggerMessage(EventId = 1502, Level = LogLevel.Warning, Message = "Retention: pruning failed ({Problem}); retrying later")]
-    private static partial void LogPruneFailed(ILogger logger, string problem);
 }

@@ -5,6 +5,7 @@ using Microsoft.Extensions.Logging;
 using Microsoft.Extensions.Options;
 using ModelWatch.Daemon.Execution;
 using ModelWatch.Daemon.Health;
+using ModelWatch.Daemon.Hosting;
 using ModelWatch.Daemon.Options;
 using ModelWatch.Daemon.Persistence;
 using ModelWatch.Daemon.Runs;
@@ -23,7 +24,7 @@ namespace ModelWatch.Daemon.Scheduling;
 /// answers again. On shutdown it stops claiming, gives in-flight runs <see cref="DaemonOptions.ShutdownTimeout"/>,
 /// then abandons them and releases its leases.
 /// </summary>
-public sealed partial class SchedulerService(
+public sealed class SchedulerService(
     ModelRepository models,
     LeaseRepository leases,
     RunPipeline pipeline,
@@ -47,7 +48,7 @@ public sealed partial class SchedulerService(
         using var runs = new CancellationTokenSource();
         int failures = 0;
         bool migrated = !settings.MigrateOnStart;
-        LogStarting(logger, settings.WorkerId, settings.Concurrency);
+        DaemonLog.LogStarting(logger, settings.WorkerId, settings.Concurrency);
         while (!stoppingToken.IsCancellationRequested)
         {
             TimeSpan wait = settings.PollInterval;
@@ -57,7 +58,7 @@ public sealed partial class SchedulerService(
                 if (!migrated)
                 {
                     MigrationResult result = await MigrationRunner.MigrateAsync(state, TimeSpan.FromMinutes(2), stoppingToken);
-                    LogMigrated(logger, result.CurrentVersion, result.Applied.Count);
+                    DaemonLog.LogMigrated(logger, result.CurrentVersion, result.Applied.Count);
                     migrated = true;
                 }
 
@@ -101,7 +102,7 @@ public sealed partial class SchedulerService(
                 health.DatabaseUnavailable(ex.Message);
                 health.CycleCompleted();
                 wait = Backoff(settings, failures);
-                LogDatabaseUnavailable(logger, ex.Message, wait.TotalSeconds);
+                DaemonLog.LogDatabaseUnavailable(logger, ex.Message, wait.TotalSeconds);
             }
 
             try
@@ -149,7 +150,7 @@ public sealed partial class SchedulerService(
             slot = plan.RunSlot;
             if (plan.PassedOver > 0)
             {
-                LogPassedOver(logger, claim.Key, plan.PassedOver, claim.Slot, plan.RunSlot, settings.MissedSlots);
+                DaemonLog.LogPassedOver(logger, claim.Key, plan.PassedOver, claim.Slot, plan.RunSlot, settings.MissedSlots);
             }
 
             // A run may outlast its lease (a slow query): the lease is extended while it runs, so no other replica takes
@@ -167,17 +168,17 @@ public sealed partial class SchedulerService(
         }
         catch (OperationCanceledException) when (leaseLost.IsCancellationRequested && !cancellationToken.IsCancellationRequested)
         {
-            LogLeaseLostMidRun(logger, claim.Key, slot);
+            DaemonLog.LogLeaseLostMidRun(logger, claim.Key, slot);
         }
         catch (OperationCanceledException) when (cancellationToken.IsCancellationRequested)
         {
-            LogAbandoned(logger, claim.Key, slot, settings.MissedSlots);
+            DaemonLog.LogAbandoned(logger, claim.Key, slot, settings.MissedSlots);
         }
         catch (Exception ex) when (ex is not OutOfMemoryException)
         {
             // Nothing was recorded: the model stays due from its claimed slot and is claimed again when the lease expires;
             // the missed-slot policy then decides whether this slot runs again or is passed over for a later one.
-            LogRunCrashed(logger, ex, claim.Key, slot, time.GetUtcNow() + settings.LeaseDuration, settings.MissedSlots);
+            DaemonLog.LogRunCrashed(logger, ex, claim.Key, slot, time.GetUtcNow() + settings.LeaseDuration, settings.MissedSlots);
         }
         finally
         {
@@ -207,7 +208,7 @@ public sealed partial class SchedulerService(
             catch (Exception ex) when (ex is NpgsqlException or TimeoutException or System.Net.Sockets.SocketException)
             {
                 // The lease may still be live; the next attempt, a third of a lease later, may get through.
-                LogRenewFailed(logger, key, slot, ex.Message);
+                DaemonLog.LogRenewFailed(logger, key, slot, ex.Message);
             }
         }
     }
@@ -284,11 +285,11 @@ public sealed partial class SchedulerService(
         {
             using var release = new CancellationTokenSource(TimeSpan.FromSeconds(5));
             int released = await leases.ReleaseAllAsync(settings.WorkerId, release.Token);
-            LogStopped(logger, settings.WorkerId, released);
+            DaemonLog.LogStopped(logger, settings.WorkerId, released);
         }
         catch (Exception ex) when (ex is NpgsqlException or OperationCanceledException or TimeoutException)
         {
-            LogReleaseFailed(logger, ex.Message);
+            DaemonLog.LogReleaseFailed(logger, ex.Message);
         }
     }
 
@@ -304,34 +305,4 @@ public sealed partial class SchedulerService(
         double seconds = Math.Min(settings.MaxBackoff.TotalSeconds, Math.Pow(2, Math.Min(failures, 16)));
         return TimeSpan.FromSeconds(seconds * (0.5 + (0.5 * _jitter.NextDouble())));
     }
-
-    [LoggerMessage(EventId = 1001, Level = LogLevel.Information, Message = "Worker {WorkerId} starting with concurrency {Concurrency}")]
-    private static partial void LogStarting(ILogger logger, string workerId, int concurrency);
-
-    [LoggerMessage(EventId = 1002, Level = LogLevel.Information, Message = "State database at schema version {Version} ({Applied} migration(s) applied)")]
-    private static partial void LogMigrated(ILogger logger, int version, int applied);
-
-    [LoggerMessage(EventId = 1003, Level = LogLevel.Warning, Message = "State database unavailable ({Problem}); retrying in {Seconds:F1} s")]
-    private static partial void LogDatabaseUnavailable(ILogger logger, string problem, double seconds);
-
-    [LoggerMessage(EventId = 1004, Level = LogLevel.Information, Message = "Model {Model}: {Count} missed slot(s) from {DueSlot:O} passed over under MissedSlots={Policy}; running slot {Slot:O}")]
-    private static partial void LogPassedOver(ILogger logger, string model, int count, DateTimeOffset dueSlot, DateTimeOffset slot, MissedSlotPolicy policy);
-
-    [LoggerMessage(EventId = 1005, Level = LogLevel.Warning, Message = "Model {Model}: run for slot {Slot:O} abandoned at shutdown, nothing recorded; the next replica to claim the model applies MissedSlots={Policy} to it")]
-    private static partial void LogAbandoned(ILogger logger, string model, DateTimeOffset slot, MissedSlotPolicy policy);
-
-    [LoggerMessage(EventId = 1006, Level = LogLevel.Error, Message = "Model {Model}: run for slot {Slot:O} could not be recorded; the model is claimed again after its lease expires ({Expires:O}) and MissedSlots={Policy} decides whether this slot runs then")]
-    private static partial void LogRunCrashed(ILogger logger, Exception exception, string model, DateTimeOffset slot, DateTimeOffset expires, MissedSlotPolicy policy);
-
-    [LoggerMessage(EventId = 1010, Level = LogLevel.Warning, Message = "Model {Model}: lease lost during the run for slot {Slot:O} (another replica owns the model now); the run stopped, nothing recorded")]
-    private static partial void LogLeaseLostMidRun(ILogger logger, string model, DateTimeOffset slot);
-
-    [LoggerMessage(EventId = 1011, Level = LogLevel.Warning, Message = "Model {Model}: the lease of the run for slot {Slot:O} could not be renewed ({Problem}); trying again")]
-    private static partial void LogRenewFailed(ILogger logger, string model, DateTimeOffset slot, string problem);
-
-    [LoggerMessage(EventId = 1007, Level = LogLevel.Information, Message = "Worker {WorkerId} stopped; {Released} lease(s) released")]
-    private static partial void LogStopped(ILogger logger, string workerId, int released);
-
-    [LoggerMessage(EventId = 1008, Level = LogLevel.Warning, Message = "Leases could not be released at shutdown ({Problem}); they expire by themselves")]
-    private static partial void LogReleaseFailed(ILogger logger, string problem);
 }

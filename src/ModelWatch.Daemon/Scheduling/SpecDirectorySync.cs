@@ -1,6 +1,7 @@
 using Microsoft.Extensions.Hosting;
 using Microsoft.Extensions.Logging;
 using Microsoft.Extensions.Options;
+using ModelWatch.Daemon.Hosting;
 using ModelWatch.Daemon.Options;
 using ModelWatch.Store.Models;
 using ModelWatch.Store.Specs;
@@ -13,7 +14,7 @@ namespace ModelWatch.Daemon.Scheduling;
 /// a ConfigMap or a git checkout can be the source of truth. An invalid folder is logged with every problem and
 /// applies nothing; the models already registered keep running.
 /// </summary>
-public sealed partial class SpecDirectorySync(
+public sealed class SpecDirectorySync(
     ModelRepository models,
     IOptions<SpecsOptions> options,
     TimeProvider time,
@@ -32,7 +33,7 @@ public sealed partial class SpecDirectorySync(
 
         if (!Directory.Exists(folder))
         {
-            LogMissingFolder(logger, folder);
+            DaemonLog.LogMissingFolder(logger, folder);
             return;
         }
 
@@ -69,21 +70,21 @@ public sealed partial class SpecDirectorySync(
         {
             IReadOnlyList<(ModelSpec Spec, string File)> specs = ModelSpecFiles.Load(folder);
             var outcomes = await models.ApplyAsync([.. specs.Select(s => (s.Spec, (string?)s.File))], options.Value.Prune, cancellationToken);
-            LogSynced(logger, folder, specs.Count, outcomes.Count);
+            DaemonLog.LogSynced(logger, folder, specs.Count, outcomes.Count);
             return true;
         }
         catch (ModelSpecException ex)
         {
             foreach (SpecProblem problem in ex.Problems)
             {
-                LogSpecProblem(logger, problem.ToString());
+                DaemonLog.LogSpecProblem(logger, problem.ToString());
             }
 
             return false;
         }
         catch (Exception ex) when (ex is NpgsqlException or IOException or TimeoutException)
         {
-            LogSyncFailed(logger, folder, ex.Message);
+            DaemonLog.LogSyncFailed(logger, folder, ex.Message);
             return false;
         }
     }
@@ -94,16 +95,4 @@ public sealed partial class SpecDirectorySync(
         _changed.Dispose();
         base.Dispose();
     }
-
-    [LoggerMessage(EventId = 1401, Level = LogLevel.Information, Message = "Specs in {Folder}: {Count} file(s) applied ({Outcomes} outcome(s))")]
-    private static partial void LogSynced(ILogger logger, string folder, int count, int outcomes);
-
-    [LoggerMessage(EventId = 1402, Level = LogLevel.Error, Message = "Spec problem: {Problem} (nothing from the folder was applied)")]
-    private static partial void LogSpecProblem(ILogger logger, string problem);
-
-    [LoggerMessage(EventId = 1403, Level = LogLevel.Warning, Message = "Specs in {Folder} could not be applied: {Problem}")]
-    private static partial void LogSyncFailed(ILogger logger, string folder, string problem);
-
-    [LoggerMessage(EventId = 1404, Level = LogLevel.Error, Message = "Specs:Directory {Folder} does not exist; no specs are synced from it")]
-    private static partial void LogMissingFolder(ILogger logger, string folder);
 }
