@@ -1,6 +1,7 @@
 using System.CommandLine;
 using System.Globalization;
 using System.Text.Json;
+using ModelWatch.Cli.Operations;
 using ModelWatch.Cli.Output;
 using ModelWatch.Daemon.Alerts;
 
@@ -131,14 +132,14 @@ internal static class AlertsCommand
     {
         var key = new Argument<string>("key") { Description = "Model key" };
         var check = new Option<string?>("--check") { Description = "Only this check (default: every check of the model)" };
-        var until = StoreCommandRunner.TimeOption("--until", "When the silence ends", required: true);
+        var until = OperationOptions.Time("--until", "When the silence ends", required: true);
         var reason = new Option<string>("--reason") { Description = "Why (kept with the silence)", Required = true };
         var actor = new Option<string>("--actor") { Description = "Who is acting (default: the current user)", DefaultValueFactory = _ => StoreCommandRunner.Actor };
         var database = StoreCommandRunner.DatabaseOption();
         var command = new Command("silence", "Stop notifications for a model (or one check) until a time; runs and alerts go on") { key, check, until, reason, actor, database };
         command.SetAction((parse, cancellationToken) => StoreCommandRunner.RunAsync(parse, "alerts silence", database, async (databases, output, ct) =>
         {
-            DateTimeOffset end = StoreCommandRunner.ParseTime("--until", parse.GetRequiredValue(until));
+            DateTimeOffset end = parse.GetValue(until)!.Value;
             DateTimeOffset now = TimeProvider.System.GetUtcNow();
             if (end <= now)
             {
@@ -155,7 +156,7 @@ internal static class AlertsCommand
     private static Command Resend()
     {
         var id = new Argument<long?>("id") { Description = "Alert id (or --since for every alert)", Arity = ArgumentArity.ZeroOrOne };
-        var since = StoreCommandRunner.TimeOption("--since", "Notifications queued since this time, of any alert", required: false);
+        var since = OperationOptions.Time("--since", "Notifications queued since this time, of any alert", required: false);
         var target = new Option<string?>("--target") { Description = "Only this notification target" };
         var database = StoreCommandRunner.DatabaseOption();
         var command = new Command("resend", "Queue failed or skipped notifications again (after a target's outage or a configuration fix)") { id, since, target, database };
@@ -178,7 +179,7 @@ internal static class AlertsCommand
                 return ExitCodes.RuntimeError;
             }
 
-            DateTimeOffset? from = parse.GetValue(since) is { } text ? StoreCommandRunner.ParseTime("--since", text) : null;
+            DateTimeOffset? from = parse.GetValue(since);
             int queued = await repository.ResendAsync(alertId, from, parse.GetValue(target), ct);
             output.WriteLine($"{queued} notification(s) queued again; a running daemon sends them within Notifications:PollInterval");
             return ExitCodes.Ok;

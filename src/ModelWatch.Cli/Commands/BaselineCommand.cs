@@ -1,6 +1,7 @@
 using System.CommandLine;
 using System.Globalization;
 using ModelWatch.Checks.Summaries;
+using ModelWatch.Cli.Operations;
 using ModelWatch.Store.Baselines;
 
 namespace ModelWatch.Cli.Commands;
@@ -19,14 +20,14 @@ internal static class BaselineCommand
     private static Command CreateFit()
     {
         var key = new Argument<string>("key") { Description = "The model's key" };
-        var from = StoreCommandRunner.TimeOption("--from", "Start of the reference window (inclusive)", required: true);
-        var to = StoreCommandRunner.TimeOption("--to", "End of the reference window (exclusive)", required: true);
+        var from = OperationOptions.Time("--from", "Start of the reference window (inclusive)", required: true);
+        var to = OperationOptions.Time("--to", "End of the reference window (exclusive)", required: true);
         var database = StoreCommandRunner.DatabaseOption();
         var command = new Command("fit", "Fit a baseline on a reference window read from the model's data source") { key, from, to, database };
         command.SetAction((parse, cancellationToken) => StoreCommandRunner.RunAsync(parse, "baseline fit", database, async (databases, output, ct) =>
         {
-            DateTimeOffset start = StoreCommandRunner.ParseTime("--from", parse.GetRequiredValue(from));
-            DateTimeOffset end = StoreCommandRunner.ParseTime("--to", parse.GetRequiredValue(to));
+            DateTimeOffset start = parse.GetValue(from)!.Value;
+            DateTimeOffset end = parse.GetValue(to)!.Value;
             var service = new BaselineService(databases, TimeProvider.System, StoreCommandRunner.CommandTimeout);
             Report(output, await service.FitAsync(parse.GetRequiredValue(key), start, end, StoreCommandRunner.Actor, ct));
             return ExitCodes.Ok;
@@ -38,23 +39,21 @@ internal static class BaselineCommand
     {
         var key = new Argument<string>("key") { Description = "The model's key" };
         var file = new Argument<FileInfo>("file") { Description = "Coefficients as JSON: our import format, or what 'modelwatch fit --format json' prints" };
-        var from = StoreCommandRunner.TimeOption("--from", "Start of a reference window that completes the reference statistics", required: false);
-        var to = StoreCommandRunner.TimeOption("--to", "End of that reference window (exclusive)", required: false);
+        var from = OperationOptions.Time("--from", "Start of a reference window that completes the reference statistics", required: false);
+        var to = OperationOptions.Time("--to", "End of that reference window (exclusive)", required: false);
         var database = StoreCommandRunner.DatabaseOption();
         var command = new Command("import", "Import deployed coefficients from a training pipeline") { key, file, from, to, database };
         command.SetAction((parse, cancellationToken) => StoreCommandRunner.RunAsync(parse, "baseline import", database, async (databases, output, ct) =>
         {
             FileInfo input = parse.GetRequiredValue(file);
-            string? fromText = parse.GetValue(from);
-            string? toText = parse.GetValue(to);
-            if ((fromText is null) != (toText is null))
+            DateTimeOffset? start = parse.GetValue(from);
+            DateTimeOffset? end = parse.GetValue(to);
+            if ((start is null) != (end is null))
             {
                 throw new FormatException("give both --from and --to for a reference window, or neither");
             }
 
-            (DateTimeOffset, DateTimeOffset)? window = fromText is null
-                ? null
-                : (StoreCommandRunner.ParseTime("--from", fromText), StoreCommandRunner.ParseTime("--to", toText!));
+            (DateTimeOffset, DateTimeOffset)? window = start is null ? null : (start.Value, end!.Value);
             string json = await File.ReadAllTextAsync(input.FullName, ct);
             var service = new BaselineService(databases, TimeProvider.System, StoreCommandRunner.CommandTimeout);
             Report(output, await service.ImportAsync(parse.GetRequiredValue(key), input.Name, json, window, StoreCommandRunner.Actor, ct));

@@ -1,5 +1,4 @@
 using System.CommandLine;
-using System.Globalization;
 using Microsoft.Extensions.Configuration;
 using ModelWatch.Daemon.Hosting;
 using ModelWatch.Store.Baselines;
@@ -25,18 +24,6 @@ internal static class StoreCommandRunner
     {
         Description = "Connection string of the state database (default: configuration ConnectionStrings:State, env ConnectionStrings__State)",
     };
-
-    public static Option<string> TimeOption(string name, string description, bool required) => new(name)
-    {
-        Description = description + " (RFC 3339, e.g. 2026-03-01T00:00:00Z; without an offset, UTC)",
-        Required = required,
-    };
-
-    /// <summary>Parses an RFC 3339 time with any offset (UTC when none) and returns it in UTC.</summary>
-    public static DateTimeOffset ParseTime(string option, string text) =>
-        DateTimeOffset.TryParse(text, CultureInfo.InvariantCulture, DateTimeStyles.AssumeUniversal | DateTimeStyles.AdjustToUniversal, out DateTimeOffset value)
-            ? value.ToUniversalTime()
-            : throw new FormatException($"{option}: '{text}' is not an RFC 3339 time such as 2026-03-01T00:00:00Z");
 
     /// <summary>Who made a change, for the created_by columns.</summary>
     public static string Actor => $"{Environment.UserName}@{Environment.MachineName}";

@@ -1,6 +1,5 @@
 using System.CommandLine;
 using System.CommandLine.Parsing;
-using System.Globalization;
 using ModelWatch.Cli.Commands;
 using ModelWatch.Store.Specs;
 
@@ -14,7 +13,7 @@ internal static class OperationOptions
 {
     public static Option<DateTimeOffset?> Time(string name, string description, bool required) => new(name)
     {
-        Description = description + " (RFC 3339, e.g. 2026-03-01T00:00:00Z; without an offset, UTC)",
+        Description = description + " (RFC 3339 with Z or an offset, e.g. 2026-03-01T00:00:00Z; a date alone is midnight UTC; now, -7d, +2h)",
         Required = required,
         CustomParser = result => ParseTime(name, result),
     };
@@ -39,22 +38,17 @@ internal static class OperationOptions
 
     /// <summary>The time an option was given, or null when it is absent or does not parse.</summary>
     public static DateTimeOffset? TryTime(OptionResult? result) =>
-        result is { Tokens.Count: > 0 } ? Parse(result.Tokens[0].Value) : null;
-
-    private static DateTimeOffset? Parse(string text) =>
-        DateTimeOffset.TryParse(text, CultureInfo.InvariantCulture, DateTimeStyles.AssumeUniversal | DateTimeStyles.AdjustToUniversal, out DateTimeOffset value)
-            ? value.ToUniversalTime()
-            : null;
+        result is { Tokens.Count: > 0 } && StrictTime.TryParse(result.Tokens[0].Value, TimeProvider.System.GetUtcNow(), out DateTimeOffset value, out _) ? value : null;
 
     private static DateTimeOffset? ParseTime(string name, ArgumentResult result)
     {
         string text = result.Tokens.Count > 0 ? result.Tokens[0].Value : string.Empty;
-        if (Parse(text) is { } value)
+        if (StrictTime.TryParse(text, TimeProvider.System.GetUtcNow(), out DateTimeOffset value, out string error))
         {
             return value;
         }
 
-        result.AddError($"{name}: '{text}' is not an RFC 3339 time such as 2026-03-01T00:00:00Z");
+        result.AddError($"{name}: {error}");
         return null;
     }
 }

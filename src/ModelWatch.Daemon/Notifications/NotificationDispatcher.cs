@@ -148,8 +148,7 @@ public sealed class NotificationDispatcher(
             return ("skipped", "silenced");
         }
 
-        byte[] body = NotificationPayload.Create(alert, time.GetUtcNow());
-        IReadOnlyList<DeliveryAttempt> attempts = await sender.DeliverAsync(notification.Target, target, alert.AlertId, body, cancellationToken);
+        IReadOnlyList<DeliveryAttempt> attempts = await sender.DeliverAsync(notification.Target, target, alert.AlertId, (attempt, at) => NotificationPayload.Create(alert, at, attempt), cancellationToken);
         await RecordAttemptsAsync(attempts, notification.EventId, cancellationToken);
         if (attempts[^1].Succeeded)
         {

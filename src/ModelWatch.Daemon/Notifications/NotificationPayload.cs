@@ -6,7 +6,7 @@ namespace ModelWatch.Daemon.Notifications;
 /// <summary>
 /// The JSON body ModelWatch POSTs to a webhook target. Our own format, versioned by <c>schema</c>:
 /// <code>
-/// { "schema": 1, "event": "modelwatch.alert.opened", "sent_at": "...Z",
+/// { "schema": 1, "event": "modelwatch.alert.opened", "event_id": 118, "attempt": 1, "sent_at": "...Z",
 ///   "alert": { "id", "model", "check", "subject", "severity", "state", "statistic", "value", "threshold",
 ///              "explanation", "at" } }
 /// </code>
@@ -17,7 +17,7 @@ public static class NotificationPayload
     public const int Schema = 1;
 
     /// <summary>Serialises one alert event.</summary>
-    public static byte[] Create(AlertEvent alert, DateTimeOffset sentAt)
+    public static byte[] Create(AlertEvent alert, DateTimeOffset sentAt, int attempt = 1)
     {
         ArgumentNullException.ThrowIfNull(alert);
         using var buffer = new MemoryStream();
@@ -32,6 +32,8 @@ public static class NotificationPayload
                 writer.WriteNumber("event_id", eventId);
             }
 
+            // The attempt and the send time are in the body so that the signature covers them.
+            writer.WriteNumber("attempt", attempt);
             writer.WriteString("sent_at", sentAt.ToUniversalTime().ToString("yyyy-MM-dd'T'HH:mm:ss.fff'Z'", System.Globalization.CultureInfo.InvariantCulture));
             writer.WriteStartObject("alert");
             writer.WriteNumber("id", alert.AlertId);

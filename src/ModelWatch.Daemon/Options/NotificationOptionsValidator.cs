@@ -22,6 +22,10 @@ internal sealed class NotificationOptionsValidator : IValidateOptions<Notificati
             {
                 problems.AddRange(results.Select(r => $"Notifications:Targets:{target}: {r.ErrorMessage}"));
             }
+            else if (!Uri.TryCreate(settings.Url, UriKind.Absolute, out Uri? url) || (url.Scheme != Uri.UriSchemeHttps && url.Scheme != Uri.UriSchemeHttp))
+            {
+                problems.Add($"Notifications:Targets:{target}: Url '{settings.Url}' is not an http:// or https:// address");
+            }
         }
 
         return problems.Count == 0 ? ValidateOptionsResult.Success : ValidateOptionsResult.Fail(problems);

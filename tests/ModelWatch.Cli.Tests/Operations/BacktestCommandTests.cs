@@ -91,7 +91,7 @@ public sealed class BacktestCommandTests(PostgresDatabase database) : IClassFixt
     }
 
     [Theory]
-    [InlineData("--from", "yesterday", "--from: 'yesterday' is not an RFC 3339 time")]
+    [InlineData("--from", "yesterday", "--from: 'yesterday' is not a time; use RFC 3339")]
     [InlineData("--every", "often", "--every: 'often' is not a duration")]
     [InlineData("--to", "2026-02-01T00:00:00Z", "--to (2026-02-01T00:00:00Z) is before --from (2026-02-02T00:00:00Z)")]
     public async Task A_bad_time_or_step_is_a_usage_error(string option, string value, string message)

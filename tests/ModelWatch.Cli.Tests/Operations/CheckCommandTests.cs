@@ -96,7 +96,7 @@ public sealed class CheckCommandTests(PostgresDatabase database) : IClassFixture
     }
 
     [Theory]
-    [InlineData("--at", "noon", "--at: 'noon' is not an RFC 3339 time")]
+    [InlineData("--at", "noon", "--at: 'noon' is not a time; use RFC 3339")]
     [InlineData("--fail-on", "ok", "--fail-on: 'ok' is not a severity to fail on; use warning or critical")]
     public async Task A_bad_option_is_a_usage_error(string option, string value, string message)
     {

@@ -202,8 +202,8 @@ public sealed class StoreCommandTests(PostgresDatabase database) : IClassFixture
     {
         CliRun run = await Cli("baseline", "fit", "cli-a", "--from", "yesterday", "--to", "2026-03-02T00:00:00Z");
 
-        Assert.Equal(ExitCodes.RuntimeError, run.ExitCode);
-        Assert.Contains("--from: 'yesterday' is not an RFC 3339 time", run.Error, StringComparison.Ordinal);
+        Assert.Equal(ExitCodes.Usage, run.ExitCode);
+        Assert.Contains("--from: 'yesterday' is not a time; use RFC 3339", run.Error, StringComparison.Ordinal);
     }
 
     [Fact]

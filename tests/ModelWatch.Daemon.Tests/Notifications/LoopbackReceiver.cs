@@ -26,7 +26,12 @@ internal sealed class LoopbackReceiver : IDisposable
 
     public string Url { get; }
 
-    public ConcurrentQueue<(byte[] Body, string? Signature, string? Attempt)> Received { get; } = new();
+    /// <summary>Whether a received request's signature holds for <paramref name="secret"/> at the moment it was sent.</summary>
+    public static bool Verifies((byte[] Body, string? Signature, string? Attempt, string? Timestamp) received, string secret) =>
+        received.Timestamp is { } t && ModelWatch.Daemon.Notifications.WebhookSignature.Verify(
+            received.Body, secret, t, received.Signature, DateTimeOffset.FromUnixTimeSeconds(long.Parse(t, System.Globalization.CultureInfo.InvariantCulture)), TimeSpan.Zero);
+
+    public ConcurrentQueue<(byte[] Body, string? Signature, string? Attempt, string? Timestamp)> Received { get; } = new();
 
     public void Dispose()
     {
@@ -57,7 +62,7 @@ internal sealed class LoopbackReceiver : IDisposable
 
             using var body = new MemoryStream();
             await context.Request.InputStream.CopyToAsync(body);
-            Received.Enqueue((body.ToArray(), context.Request.Headers["X-ModelWatch-Signature"], context.Request.Headers["X-ModelWatch-Attempt"]));
+            Received.Enqueue((body.ToArray(), context.Request.Headers["X-ModelWatch-Signature"], context.Request.Headers["X-ModelWatch-Attempt"], context.Request.Headers["X-ModelWatch-Timestamp"]));
             context.Response.StatusCode = _statuses.Count > 0 ? _statuses.Dequeue() : 200;
             context.Response.Close();
         }

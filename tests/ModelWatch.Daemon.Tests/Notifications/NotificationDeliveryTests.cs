@@ -42,7 +42,7 @@ public sealed class NotificationDeliveryTests(PostgresDatabase database) : IClas
         await daemon.StopAsync();
 
         Assert.True(pager.Received.TryDequeue(out var first));
-        Assert.True(WebhookSignature.Verify(first.Body, Secret, first.Signature));
+        Assert.True(LoopbackReceiver.Verifies(first, Secret));
         Assert.Contains("\"model\":\"parcels-paged\"", System.Text.Encoding.UTF8.GetString(first.Body), StringComparison.Ordinal);
         Assert.NotEmpty(channel.Received);
         Assert.Equal(2, await DaemonTestData.ScalarAsync(database.DataSource,

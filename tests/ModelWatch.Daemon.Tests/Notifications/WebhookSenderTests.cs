@@ -28,8 +28,8 @@ public sealed class WebhookSenderTests
         Assert.True(attempt.Succeeded);
         Assert.Equal(200, attempt.StatusCode);
         Assert.True(receiver.Received.TryDequeue(out var received));
-        Assert.True(WebhookSignature.Verify(received.Body, Secret, received.Signature));
-        Assert.False(WebhookSignature.Verify(received.Body, "another-secret-entirely", received.Signature));
+        Assert.True(LoopbackReceiver.Verifies(received, Secret));
+        Assert.False(LoopbackReceiver.Verifies(received, "another-secret-entirely"));
         using var json = JsonDocument.Parse(received.Body);
         Assert.Equal("modelwatch.alert.opened", json.RootElement.GetProperty("event").GetString());
         Assert.Equal("route_km", json.RootElement.GetProperty("alert").GetProperty("subject").GetString());
@@ -77,12 +77,45 @@ public sealed class WebhookSenderTests
     }
 
     [Fact]
-    public void Signature_is_hmac_sha256_of_the_body()
+    public void The_mac_is_hmac_sha256_and_the_signature_covers_the_timestamp_and_the_body()
     {
         // RFC 4231 test case 2: key "Jefe", data "what do ya want for nothing?".
-        string header = WebhookSignature.Sign("what do ya want for nothing?"u8, "Jefe");
+        Assert.Equal("sha256=5bdcc146bf60754e6a042426089575c75a003f089d2739839dec58b964ec3843", WebhookSignature.Mac("what do ya want for nothing?"u8, "Jefe"));
 
-        Assert.Equal("sha256=5bdcc146bf60754e6a042426089575c75a003f089d2739839dec58b964ec3843", header);
+        // The signed message is TIMESTAMP "." BODY.
+        Assert.Equal(WebhookSignature.Mac("1764662400.{\"a\":1}"u8, Secret), WebhookSignature.Sign(1764662400, "{\"a\":1}"u8, Secret));
+        var sentAt = DateTimeOffset.FromUnixTimeSeconds(1764662400);
+        string signature = WebhookSignature.Sign(1764662400, "{\"a\":1}"u8, Secret);
+        Assert.True(WebhookSignature.Verify("{\"a\":1}"u8, Secret, "1764662400", signature, sentAt.AddMinutes(4), WebhookSignature.RecommendedTolerance));
+
+        // A captured request replayed later, with another timestamp, or with a changed body is refused.
+        Assert.False(WebhookSignature.Verify("{\"a\":1}"u8, Secret, "1764662400", signature, sentAt.AddMinutes(6), WebhookSignature.RecommendedTolerance));
+        Assert.False(WebhookSignature.Verify("{\"a\":1}"u8, Secret, "1764662700", signature, sentAt.AddMinutes(5), WebhookSignature.RecommendedTolerance));
+        Assert.False(WebhookSignature.Verify("{\"a\":2}"u8, Secret, "1764662400", signature, sentAt, WebhookSignature.RecommendedTolerance));
+        Assert.False(WebhookSignature.Verify("{\"a\":1}"u8, Secret, null, signature, sentAt, WebhookSignature.RecommendedTolerance));
+    }
+
+    [Fact]
+    public async Task Each_attempt_is_signed_with_its_own_timestamp_and_carries_its_number_in_the_signed_body()
+    {
+        using var receiver = new LoopbackReceiver(503, 200);
+        using var http = new HttpClient();
+        var time = new FakeTimeProvider(new DateTimeOffset(2026, 12, 2, 6, 0, 0, TimeSpan.Zero));
+        var sender = new WebhookSender(http, time);
+
+        Task<IReadOnlyList<DeliveryAttempt>> delivery = sender.DeliverAsync("pager", Target(receiver.Url), Opened.AlertId, (attempt, at) => NotificationPayload.Create(Opened, at, attempt), CancellationToken.None);
+        while (!delivery.IsCompleted)
+        {
+            time.Advance(TimeSpan.FromSeconds(1));
+            await Task.Delay(5);
+        }
+
+        var received = receiver.Received.ToList();
+        Assert.Equal(2, received.Count);
+        Assert.All(received, r => Assert.True(LoopbackReceiver.Verifies(r, Secret)));
+        Assert.NotEqual(received[0].Timestamp, received[1].Timestamp);
+        Assert.Equal([1, 2], received.Select(r => JsonDocument.Parse(r.Body).RootElement.GetProperty("attempt").GetInt32()));
+        Assert.Equal(["1", "2"], received.Select(r => r.Attempt!));
     }
 
     private static NotificationTargetOptions Target(string url) => new()

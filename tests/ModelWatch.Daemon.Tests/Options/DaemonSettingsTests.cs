@@ -67,6 +67,20 @@ public sealed class DaemonSettingsTests
     }
 
     [Fact]
+    public void A_webhook_target_must_be_http_or_https()
+    {
+        (IReadOnlyList<string> problems, _) = DaemonSettings.Audit(Settings(new()
+        {
+            ["Notifications:Targets:files:Url"] = "ftp://files.example.internal/hooks",
+            ["Notifications:Targets:files:Secret"] = "a-secret-of-enough-length",
+            ["Notifications:Targets:web:Url"] = "https://hooks.example.internal/ok",
+            ["Notifications:Targets:web:Secret"] = "a-secret-of-enough-length",
+        }));
+
+        Assert.Equal(["Notifications:Targets:files: Url 'ftp://files.example.internal/hooks' is not an http:// or https:// address"], problems);
+    }
+
+    [Fact]
     public void The_scrape_endpoint_needs_the_http_endpoint()
     {
         (IReadOnlyList<string> problems, _) = DaemonSettings.Audit(Settings(new() { ["Telemetry:PrometheusEnabled"] = "true" }));
