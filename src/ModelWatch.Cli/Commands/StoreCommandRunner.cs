@@ -41,6 +41,12 @@ internal static class StoreCommandRunner
             }
 
             await using var databases = new StoreDataSources(configuration, parse.GetValue(database));
+            if (name != "migrate")
+            {
+                // An older build must not write into a newer schema, and a newer one needs the migrations first.
+                await MigrationRunner.EnsureCurrentAsync(databases.State, CommandTimeout, cancellationToken);
+            }
+
             return await body(databases, parse.InvocationConfiguration.Output, cancellationToken);
         }
         catch (ModelSpecException ex)

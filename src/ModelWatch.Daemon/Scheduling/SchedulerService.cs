@@ -47,7 +47,7 @@ public sealed class SchedulerService(
         DaemonOptions settings = options.Value;
         using var runs = new CancellationTokenSource();
         int failures = 0;
-        bool migrated = !settings.MigrateOnStart;
+        bool migrated = false;
         DaemonLog.LogStarting(logger, settings.WorkerId, settings.Concurrency);
         while (!stoppingToken.IsCancellationRequested)
         {
@@ -57,8 +57,18 @@ public sealed class SchedulerService(
             {
                 if (!migrated)
                 {
-                    MigrationResult result = await MigrationRunner.MigrateAsync(state, TimeSpan.FromMinutes(2), stoppingToken);
-                    DaemonLog.LogMigrated(logger, result.CurrentVersion, result.Applied.Count);
+                    if (settings.MigrateOnStart)
+                    {
+                        MigrationResult result = await MigrationRunner.MigrateAsync(state, TimeSpan.FromMinutes(2), stoppingToken);
+                        DaemonLog.LogMigrated(logger, result.CurrentVersion, result.Applied.Count);
+                    }
+                    else
+                    {
+                        // Without migrating, still refuse a schema of another build: nothing is claimed or written until it matches.
+                        int version = await MigrationRunner.EnsureCurrentAsync(state, TimeSpan.FromSeconds(30), stoppingToken);
+                        DaemonLog.LogMigrated(logger, version, 0);
+                    }
+
                     migrated = true;
                 }
 

@@ -80,6 +80,31 @@ public static partial class MigrationRunner
         return new MigrationResult(applied, newest);
     }
 
+    /// <summary>
+    /// Refuses a state database whose schema is not the one this build was made for, before a command reads or writes
+    /// it: a newer schema (written by a newer build) must not be changed by this one, and an older one must be migrated
+    /// first. Returns the version when it matches.
+    /// </summary>
+    /// <exception cref="MigrationException">The versions differ (the message names both and what to do).</exception>
+    public static async Task<int> EnsureCurrentAsync(NpgsqlDataSource state, TimeSpan commandTimeout, CancellationToken cancellationToken)
+    {
+        ArgumentNullException.ThrowIfNull(state);
+        await using NpgsqlConnection connection = await state.OpenConnectionAsync(cancellationToken);
+        int? version = await connection.ExecuteScalarAsync<int?>(new CommandDefinition(
+            "SELECT CASE WHEN to_regclass('modelwatch.schema_version') IS NULL THEN NULL ELSE (SELECT coalesce(max(version), 0) FROM modelwatch.schema_version) END",
+            commandTimeout: (int)Math.Ceiling(commandTimeout.TotalSeconds),
+            cancellationToken: cancellationToken));
+        return version switch
+        {
+            null => throw new MigrationException("the state database has no ModelWatch schema; run 'modelwatch migrate' first"),
+            { } v when v > LatestVersion => throw new MigrationException(
+                $"the state database is at schema version {v}, newer than this build's {LatestVersion}: this build must not change it; upgrade modelwatch (nothing was read or written)"),
+            { } v when v < LatestVersion => throw new MigrationException(
+                $"the state database is at schema version {v}, older than this build's {LatestVersion}; run 'modelwatch migrate' (or start a daemon with Daemon:MigrateOnStart) first"),
+            { } v => v,
+        };
+    }
+
     private static List<Migration> LoadScripts()
     {
         Assembly assembly = typeof(MigrationRunner).Assembly;
