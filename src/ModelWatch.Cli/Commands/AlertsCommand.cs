@@ -80,20 +80,20 @@ internal static class AlertsCommand
                 return ExitCodes.Ok;
             }
 
-            output.WriteLine($"alert {alert.Id}: {alert.Model} / {alert.Check}{(alert.Subject is null ? string.Empty : " / " + alert.Subject)} — {alert.Severity}, {alert.State}");
-            output.WriteLine($"  {alert.Explanation}");
+            output.WriteLine(TerminalText.Clean($"alert {alert.Id}: {alert.Model} / {alert.Check}{(alert.Subject is null ? string.Empty : " / " + alert.Subject)} — {alert.Severity}, {alert.State}"));
+            output.WriteLine("  " + TerminalText.Clean(alert.Explanation));
             if (alert.Note is not null)
             {
-                output.WriteLine($"  note: {alert.Note}");
+                output.WriteLine("  note: " + TerminalText.Clean(alert.Note));
             }
 
             foreach (AlertHistoryEntry entry in history)
             {
-                output.WriteLine($"  {CliJson.Time(entry.At)}  {entry.Transition,-12} {entry.Severity,-8} by {entry.Actor}{(entry.RunId is { } run ? $" (run {run})" : string.Empty)}: {entry.Explanation}");
+                output.WriteLine(TerminalText.Clean($"  {CliJson.Time(entry.At)}  {entry.Transition,-12} {entry.Severity,-8} by {entry.Actor}{(entry.RunId is { } run ? $" (run {run})" : string.Empty)}: {entry.Explanation}"));
                 foreach (NotificationStatus notification in entry.Notifications)
                 {
                     string attempts = notification.Attempts == 1 ? "1 attempt" : $"{notification.Attempts} attempts";
-                    output.WriteLine($"      → {notification.Target}: {notification.State}{(notification.Detail is null ? string.Empty : " (" + notification.Detail + ")")}, {attempts}");
+                    output.WriteLine(TerminalText.Clean($"      → {notification.Target}: {notification.State}{(notification.Detail is null ? string.Empty : " (" + notification.Detail + ")")}, {attempts}"));
                 }
             }
 

@@ -28,7 +28,7 @@ internal static class CheckOutput
     {
         string worst = FindingLine.Worst(findings) is { } w ? FindingLine.NameOf(w) : "-";
         output.WriteLine($"model {outcome.ModelKey}, slot {CliJson.Time(outcome.Slot)}, window {CliJson.Time(outcome.WindowStart)} → {CliJson.Time(outcome.WindowEnd)}");
-        output.WriteLine(string.Create(CultureInfo.InvariantCulture, $"status {outcome.Status.Name()}{(outcome.Reason is null ? string.Empty : " (" + outcome.Reason + ")")}, {outcome.RowsRead} row(s) read, {outcome.RowsRejected} rejected, worst severity {worst}"));
+        output.WriteLine(string.Create(CultureInfo.InvariantCulture, $"status {outcome.Status.Name()}{(outcome.Reason is null ? string.Empty : " (" + TerminalText.Clean(outcome.Reason) + ")")}, {outcome.RowsRead} row(s) read, {outcome.RowsRejected} rejected, worst severity {worst}"));
         if (findings.Count > 0)
         {
             output.WriteLine();

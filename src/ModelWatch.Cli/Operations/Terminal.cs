@@ -21,6 +21,7 @@ internal static class Terminal
             return;
         }
 
+        rows = [.. rows.Select(r => r.Select(c => TerminalText.Clean(c) ?? string.Empty).ToArray())];
         var table = new Table().Border(TableBorder.Simple);
         foreach (string header in rows[0])
         {

@@ -15,7 +15,7 @@ internal static class EvidenceText
             output.WriteLine($"  opened {CliJson.Time(alert.OpenedAt)}" + (alert.ResolvedAt is { } r ? $", resolved {CliJson.Time(r)}" : string.Empty));
             if (alert.Explanation is { } latest)
             {
-                output.WriteLine($"  latest evidence: {latest}");
+                output.WriteLine($"  latest evidence: {TerminalText.Clean(latest)}");
             }
         }
         else
@@ -31,7 +31,7 @@ internal static class EvidenceText
             return;
         }
 
-        output.WriteLine($"  run {focus.Id}: window {Window(focus)}, {focus.Status}{(focus.Reason is { } why ? " (" + why + ")" : string.Empty)}, {focus.RowsRead.ToString(CultureInfo.InvariantCulture)} rows");
+        output.WriteLine($"  run {focus.Id}: window {Window(focus)}, {focus.Status}{(focus.Reason is { } why ? " (" + TerminalText.Clean(why) + ")" : string.Empty)}, {focus.RowsRead.ToString(CultureInfo.InvariantCulture)} rows");
         output.WriteLine();
         WriteMoved(output, evidence, focus);
         output.WriteLine();
@@ -75,7 +75,7 @@ internal static class EvidenceText
             : shown.Count > 0 ? "What moved: nothing critical in this run; its warnings:" : "What moved: nothing above ok in this run.");
         foreach (EvidenceFinding f in shown)
         {
-            output.WriteLine($"  [{f.Severity}] {f.Check} {f.Statistic} ({f.SubjectText}): {f.Explanation}");
+            output.WriteLine($"  [{f.Severity}] {f.Check} {f.Statistic} ({f.SubjectText}): {TerminalText.Clean(f.Explanation)}");
         }
     }
 

@@ -9,6 +9,8 @@ namespace ModelWatch.Store.Configuration;
 /// </summary>
 public sealed class StoreDataSources : IAsyncDisposable
 {
+    private const string StatePoolName = "modelwatch-state";
+    private const string SourcePoolPrefix = "modelwatch-source-";
     private readonly IConfiguration _configuration;
     private readonly Dictionary<string, NpgsqlDataSource> _sources = new(StringComparer.Ordinal);
     private readonly Lock _gate = new();
@@ -19,7 +21,7 @@ public sealed class StoreDataSources : IAsyncDisposable
         ArgumentNullException.ThrowIfNull(configuration);
         _configuration = configuration;
         StateConnectionString = ConnectionSettings.ResolveState(configuration, databaseOption);
-        State = Build(StateConnectionString, "modelwatch-state");
+        State = Build(StateConnectionString, StatePoolName);
     }
 
     /// <summary>The state database.</summary>
@@ -41,7 +43,7 @@ public sealed class StoreDataSources : IAsyncDisposable
             if (!_sources.TryGetValue(name, out NpgsqlDataSource? source))
             {
                 string connectionString = ConnectionSettings.ResolveSource(_configuration, name, StateConnectionString);
-                source = Build(connectionString, "modelwatch-source-" + name);
+                source = Build(connectionString, SourcePoolPrefix + name);
                 _sources.Add(name, source);
             }
 
@@ -50,9 +52,19 @@ public sealed class StoreDataSources : IAsyncDisposable
     }
 
     /// <summary>Builds a data source whose pool name is <paramref name="name"/>, so telemetry never shows the connection string.</summary>
+    /// <exception cref="StoreConfigurationException">The connection string does not parse (the message never repeats it: it may hold a password).</exception>
     public static NpgsqlDataSource Build(string connectionString, string name)
     {
-        var builder = new NpgsqlDataSourceBuilder(connectionString) { Name = name };
+        NpgsqlDataSourceBuilder builder;
+        try
+        {
+            builder = new NpgsqlDataSourceBuilder(connectionString) { Name = name };
+        }
+        catch (ArgumentException ex)
+        {
+            throw new StoreConfigurationException($"{Setting(name)}: the connection string is not valid ({Reason(ex)}); write key=value pairs separated by ';', such as Host=db.internal;Username=reader;Password=...;Database=sales");
+        }
+
         if (string.IsNullOrEmpty(builder.ConnectionStringBuilder.ApplicationName))
         {
             builder.ConnectionStringBuilder.ApplicationName = "modelwatch";
@@ -60,6 +72,19 @@ public sealed class StoreDataSources : IAsyncDisposable
 
         return builder.Build();
     }
+
+    private static string Setting(string name) =>
+        name == StatePoolName ? "ConnectionStrings:State (or --database)"
+        : name.StartsWith(SourcePoolPrefix, StringComparison.Ordinal) ? $"Sources:{name[SourcePoolPrefix.Length..]}:ConnectionString"
+        : name;
+
+    private static string Reason(ArgumentException ex) => ex.InnerException switch
+    {
+        KeyNotFoundException => $"'{ex.ParamName}' is not a keyword Npgsql knows; check its spelling",
+        FormatException => $"the value of '{ex.ParamName}' is not of the right kind",
+        _ when ex.ParamName is null => "it is not a list of key=value pairs",
+        _ => $"'{ex.ParamName}' cannot be set",
+    };
 
     /// <inheritdoc />
     public async ValueTask DisposeAsync()

@@ -79,8 +79,9 @@ public sealed class AlertAndRunCommandTests(PostgresDatabase database) : IClassF
         CliRun list = await Cli("alerts", "list", "--format", "json");
         CliRun ack = await Cli("alerts", "ack", Id(), "--actor", "dana", "--note", "checking the new delivery zones");
         CliRun ackAgain = await Cli("alerts", "ack", Id(), "--actor", "dana");
-        CliRun resolve = await Cli("alerts", "resolve", Id(), "--actor", "dana", "--note", "zones re-mapped; baseline refitted");
+        CliRun resolve = await Cli("alerts", "resolve", Id(), "--actor", "dana", "--note", "zones re-mapped\u001b[2J\u001b]0;pwned\u0007\r\nfake line; baseline refitted");
         CliRun show = await Cli("alerts", "show", Id(), "--format", "json");
+        CliRun text = await Cli("alerts", "show", Id());
         CliRun unresolved = await Cli("alerts", "list", "--format", "json");
 
         using JsonDocument listed = JsonDocument.Parse(list.Output);
@@ -97,6 +98,11 @@ public sealed class AlertAndRunCommandTests(PostgresDatabase database) : IClassF
         Assert.Equal("dana", shown.RootElement.GetProperty("acknowledged_by").GetString());
         Assert.Equal("dana", shown.RootElement.GetProperty("resolved_by").GetString());
         Assert.Equal(["opened", "acknowledged", "resolved"], shown.RootElement.GetProperty("history").EnumerateArray().Select(h => h.GetProperty("transition").GetString()));
+
+        // The note is kept as given, and JSON escapes it; printed as text, its control characters are written out, not sent.
+        Assert.Equal("zones re-mapped\u001b[2J\u001b]0;pwned\u0007\r\nfake line; baseline refitted", shown.RootElement.GetProperty("note").GetString());
+        Assert.Contains("note: zones re-mapped\\x1b[2J\\x1b]0;pwned\\x07\\x0d\\x0afake line; baseline refitted", text.Output, StringComparison.Ordinal);
+        Assert.DoesNotContain('\u001b', text.Output);
 
         // The engineer's transitions queued a notification for the model's target; no daemon runs here to send it.
         JsonElement acknowledged = shown.RootElement.GetProperty("history")[1];

@@ -206,6 +206,19 @@ public sealed class StoreCommandTests(PostgresDatabase database) : IClassFixture
         Assert.Contains("--from: 'yesterday' is not a time; use RFC 3339", run.Error, StringComparison.Ordinal);
     }
 
+    [Theory]
+    [InlineData("garbage", "it is not a list of key=value pairs")]
+    [InlineData("Host=127.0.0.1;Username=u;Pasword=hunter2-secret", "'pasword' is not a keyword Npgsql knows; check its spelling")]
+    [InlineData("Host=127.0.0.1;Port=hunter2-secret", "the value of 'port' is not of the right kind")]
+    public async Task A_connection_string_that_does_not_parse_is_one_line_that_never_repeats_it(string connectionString, string reason)
+    {
+        CliRun run = await CliRun.InvokeAsync("model", "list", "--database", connectionString);
+
+        Assert.Equal(ExitCodes.RuntimeError, run.ExitCode);
+        Assert.Equal($"modelwatch model list: ConnectionStrings:State (or --database): the connection string is not valid ({reason}); write key=value pairs separated by ';', such as Host=db.internal;Username=reader;Password=...;Database=sales", run.Error.Trim());
+        Assert.DoesNotContain("hunter2", run.Error, StringComparison.Ordinal);
+    }
+
     [Fact]
     public async Task A_missing_state_database_is_a_clear_error()
     {
