@@ -80,13 +80,16 @@ public static partial class ModelSpecValidator
             doc.Query = doc.Query.Trim().TrimEnd(';').TrimEnd();
             foreach (string parameter in new[] { "@window_start", "@window_end" })
             {
-                if (!Regex.IsMatch(doc.Query, Regex.Escape(parameter) + @"(?![A-Za-z0-9_])"))
+                if (!SqlCode.Uses(doc.Query, parameter))
                 {
-                    Fail("query", $"must use the parameter {parameter} (the window is [@window_start, @window_end), timestamptz)");
+                    // A parameter only in a comment or a string constant binds nothing: the query would read everything.
+                    Fail("query", Regex.IsMatch(doc.Query, Regex.Escape(parameter) + @"(?![A-Za-z0-9_])")
+                        ? $"uses {parameter} only inside a comment, a string or a quoted identifier, where it filters nothing; use it in the statement (the window is [@window_start, @window_end), timestamptz)"
+                        : $"must use the parameter {parameter} (the window is [@window_start, @window_end), timestamptz)");
                 }
             }
 
-            if (doc.Query.Contains(';', StringComparison.Ordinal))
+            if (SqlCode.Of(doc.Query).Contains(';', StringComparison.Ordinal))
             {
                 Fail("query", "must be a single SQL statement (no ';' inside)");
             }

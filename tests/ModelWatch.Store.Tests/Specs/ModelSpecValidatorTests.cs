@@ -113,6 +113,9 @@ public sealed class ModelSpecValidatorTests
     [InlineData("colour: blue", "colour", "unknown field")]
     [InlineData("query: SELECT * FROM sales WHERE sold_at < @window_end", "query", "@window_start")]
     [InlineData("query: SELECT 1 WHERE @window_start < @window_end; DROP TABLE sales", "query", "single SQL statement")]
+    [InlineData("query: \"SELECT * FROM sales WHERE sold_at < @window_end -- AND sold_at >= @window_start\"", "query", "uses @window_start only inside a comment, a string or a quoted identifier, where it filters nothing")]
+    [InlineData("query: \"SELECT * FROM sales WHERE note <> '@window_start' AND sold_at < @window_end\"", "query", "uses @window_start only inside a comment")]
+    [InlineData("query: \"SELECT * FROM sales /* sold_at >= @window_start */ WHERE sold_at < @window_end\"", "query", "uses @window_start only inside a comment")]
     [InlineData("prediction_column: loaves", "prediction_column", "already the outcome")]
     [InlineData("source: 'shop floor'", "source", "data source")]
     public void Each_invalid_field_is_reported_with_its_path(string replacement, string path, string message)
