@@ -31,7 +31,7 @@ internal static class ModelValidateCommand
             }
 
             (DateTimeOffset start, DateTimeOffset end) = spec.WindowForSlot(spec.Schedule.SlotAtOrBefore(TimeProvider.System.GetUtcNow()) ?? TimeProvider.System.GetUtcNow());
-            IReadOnlyList<WindowReadException> problems = await new WindowReader().ValidateAsync(databases.Source(spec.Source), spec, start, end, ct);
+            IReadOnlyList<WindowReadException> problems = await new WindowReader(databases.ReadOptions()).ValidateAsync(databases.Source(spec.Source), spec, start, end, ct);
             foreach (WindowReadException problem in problems)
             {
                 parse.InvocationConfiguration.Error.WriteLine(problem.Message);
@@ -41,6 +41,12 @@ internal static class ModelValidateCommand
             {
                 parse.InvocationConfiguration.Error.WriteLine($"modelwatch model validate: {problems.Count} column problem(s)");
                 return ExitCodes.RuntimeError;
+            }
+
+            // The source role's privileges beyond reading: warnings, since only the database's owner can close them.
+            foreach (string warning in await SourceRoleAudit.WarningsAsync(databases.Source(spec.Source), spec, ct))
+            {
+                parse.InvocationConfiguration.Error.WriteLine("modelwatch model validate: warning: " + warning);
             }
 
             output.WriteLine($"{spec.Key}: spec valid; query columns match ({spec.DesignSignature}, ordered by {spec.TimeColumn})");

@@ -133,7 +133,7 @@ internal sealed class EvidenceLoader(StoreDataSources databases, TimeSpan comman
             }
 
             BaselineReference reference = evidence.Baseline.Reference;
-            var read = await new WindowReader().ReadAsync(
+            var read = await new WindowReader(databases.ReadOptions()).ReadAsync(
                 databases.Source(record.Spec.Source), record.Spec, start, end,
                 () => new WindowSummarySink(record.Spec.Layout, reference, new WindowSummaryOptions()), WindowSummarySink.Merge, cancellationToken);
             double[] sample = read.Sink.Builder.Build().ResidualSample;

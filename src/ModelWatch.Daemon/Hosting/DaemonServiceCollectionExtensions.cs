@@ -55,7 +55,7 @@ public static class DaemonServiceCollectionExtensions
         services.TryAddSingleton(sp => new BaselineRepository(sp.GetRequiredService<NpgsqlDataSource>(), sp.GetRequiredService<TimeProvider>(), StateCommandTimeout));
         services.TryAddSingleton(sp => new LeaseRepository(sp.GetRequiredService<NpgsqlDataSource>(), StateCommandTimeout));
         services.TryAddSingleton(sp => new RunRecorder(sp.GetRequiredService<NpgsqlDataSource>(), StateCommandTimeout));
-        services.TryAddSingleton(_ => new WindowReader(new WindowReadOptions()));
+        services.TryAddSingleton(sp => new WindowReader(sp.GetRequiredService<StoreDataSources>().ReadOptions()));
         services.TryAddSingleton<BaselineCache>();
         services.TryAddSingleton<RunPipeline>();
         services.TryAddSingleton<RunCompletion>();

@@ -26,7 +26,7 @@ public sealed class BaselineService
         _databases = databases;
         _models = new ModelRepository(databases.State, time, commandTimeout);
         _baselines = new BaselineRepository(databases.State, time, commandTimeout);
-        _reader = new WindowReader(readOptions);
+        _reader = new WindowReader(readOptions ?? databases.ReadOptions());
         _builderOptions = builderOptions ?? new BaselineBuilderOptions();
     }
 

@@ -30,6 +30,23 @@ public sealed class StoreDataSources : IAsyncDisposable
     /// <summary>The state database's connection string.</summary>
     public string StateConnectionString { get; }
 
+    /// <summary>The statement timeout configured for a data source (<c>Sources:&lt;name&gt;:StatementTimeout</c>), or null.</summary>
+    /// <exception cref="StoreConfigurationException">The value is not a positive duration.</exception>
+    public TimeSpan? StatementTimeout(string? name)
+    {
+        if (name is null || _configuration[$"Sources:{name}:StatementTimeout"] is not { Length: > 0 } text)
+        {
+            return null;
+        }
+
+        return TimeSpan.TryParse(text, System.Globalization.CultureInfo.InvariantCulture, out TimeSpan value) && value > TimeSpan.Zero
+            ? value
+            : throw new StoreConfigurationException($"Sources:{name}:StatementTimeout: '{text}' is not a positive duration such as 00:05:00");
+    }
+
+    /// <summary>Window-read limits with each source's own statement timeout.</summary>
+    public Windows.WindowReadOptions ReadOptions() => new() { StatementTimeoutOf = StatementTimeout };
+
     /// <summary>The data source a spec reads from: the named source, or the state database when the name is null.</summary>
     public NpgsqlDataSource Source(string? name)
     {

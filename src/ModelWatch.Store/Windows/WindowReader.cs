@@ -31,7 +31,7 @@ public sealed class WindowReader
         return await Guard(spec, async () =>
         {
             await using NpgsqlConnection connection = await source.OpenConnectionAsync(cancellationToken);
-            await using NpgsqlTransaction transaction = await BeginAsync(connection, cancellationToken);
+            await using NpgsqlTransaction transaction = await BeginAsync(connection, spec, cancellationToken);
             var problems = await DescribeAsync(connection, transaction, spec, start, end, cancellationToken);
             return problems.Problems.Select(p => new WindowReadException(spec.Key, p.Failure, p.Column, p.Message)).ToList();
         });
@@ -149,7 +149,7 @@ public sealed class WindowReader
         where TSink : IWindowRowSink
     {
         await using NpgsqlConnection connection = await source.OpenConnectionAsync(cancellationToken);
-        await using NpgsqlTransaction transaction = await BeginAsync(connection, cancellationToken);
+        await using NpgsqlTransaction transaction = await BeginAsync(connection, spec, cancellationToken);
         var described = await DescribeAsync(connection, transaction, spec, start, end, cancellationToken);
         if (described.Problems.Count > 0)
         {
@@ -173,12 +173,20 @@ public sealed class WindowReader
         return new WindowReadResult<TSink>(sink, start, end, rows.RowsRead, rows.RowsRejected, rows.Reasons) { NewestRowTime = rows.NewestRowTime };
     }
 
-    private async Task<NpgsqlTransaction> BeginAsync(NpgsqlConnection connection, CancellationToken cancellationToken)
+    private async Task<NpgsqlTransaction> BeginAsync(NpgsqlConnection connection, ModelSpec spec, CancellationToken cancellationToken)
     {
         NpgsqlTransaction transaction = await connection.BeginTransactionAsync(IsolationLevel.RepeatableRead, cancellationToken);
-        long ms = Math.Max(1, (long)_options.StatementTimeout.TotalMilliseconds);
+        TimeSpan timeout = _options.StatementTimeoutOf?.Invoke(spec.Source) ?? _options.StatementTimeout;
+        long ms = Math.Max(1, (long)timeout.TotalMilliseconds);
+
+        // The configured timeout only ever tightens: a stricter statement_timeout set on the role, the database or the
+        // connection string (Options=-c statement_timeout=...) stays in force.
         await using var set = new NpgsqlCommand(
-            "SET TRANSACTION READ ONLY; SET LOCAL statement_timeout = " + ms.ToString(CultureInfo.InvariantCulture), connection, transaction)
+            "SET TRANSACTION READ ONLY; " +
+            "SELECT set_config('statement_timeout', (CASE WHEN s > 0 AND s < " + ms.ToString(CultureInfo.InvariantCulture) + " THEN s ELSE " + ms.ToString(CultureInfo.InvariantCulture) + " END)::text, true) " +
+            "FROM (SELECT setting::bigint AS s FROM pg_settings WHERE name = 'statement_timeout') AS current",
+            connection,
+            transaction)
         {
             CommandTimeout = (int)Math.Ceiling(_options.CommandTimeout.TotalSeconds),
         };
@@ -191,9 +199,65 @@ public sealed class WindowReader
     {
         await using NpgsqlCommand describe = Command(connection, transaction, spec.Query, start, end);
         describe.CommandTimeout = (int)Math.Ceiling(_options.CommandTimeout.TotalSeconds);
-        await using NpgsqlDataReader reader = await describe.ExecuteReaderAsync(CommandBehavior.SchemaOnly, cancellationToken);
-        var problems = ColumnCheck.Check(spec, reader, out HashSet<string> needsCast);
+        List<(string Column, WindowReadFailure Failure, string Message)> problems;
+        HashSet<string> needsCast;
+        await using (NpgsqlDataReader reader = await describe.ExecuteReaderAsync(CommandBehavior.SchemaOnly, cancellationToken))
+        {
+            problems = ColumnCheck.Check(spec, reader, out needsCast);
+        }
+
+        if (spec.Source is null && await StateSchemaRelationAsync(connection, transaction, spec, start, end, cancellationToken) is { } relation)
+        {
+            // A spec without a source reads the state database with the daemon's own role: it must not read ModelWatch's tables.
+            throw new WindowReadException(spec.Key, WindowReadFailure.QueryError, null,
+                $"model {spec.Key}: the query reads {relation}, ModelWatch's own state; a spec without 'source:' may read other schemas of the state database only. Name a data source with its own read-only role");
+        }
+
         return (problems, needsCast);
+    }
+
+    /// <summary>A relation of the <c>modelwatch</c> schema the query's plan reads (views are expanded in the plan), or null.</summary>
+    private async Task<string?> StateSchemaRelationAsync(NpgsqlConnection connection, NpgsqlTransaction transaction, ModelSpec spec, DateTimeOffset start, DateTimeOffset end, CancellationToken cancellationToken)
+    {
+        await using NpgsqlCommand explain = Command(connection, transaction, "EXPLAIN (VERBOSE, FORMAT JSON) " + spec.Query, start, end);
+        explain.CommandTimeout = (int)Math.Ceiling(_options.CommandTimeout.TotalSeconds);
+        string plan = (string)(await explain.ExecuteScalarAsync(cancellationToken))!;
+        using var document = System.Text.Json.JsonDocument.Parse(plan);
+        return StateRelation(document.RootElement);
+    }
+
+    private static string? StateRelation(System.Text.Json.JsonElement element)
+    {
+        switch (element.ValueKind)
+        {
+            case System.Text.Json.JsonValueKind.Object:
+                if (element.TryGetProperty("Schema", out var schema) && schema.GetString() == "modelwatch")
+                {
+                    return "modelwatch." + (element.TryGetProperty("Relation Name", out var name) ? name.GetString() : "?");
+                }
+
+                foreach (var property in element.EnumerateObject())
+                {
+                    if (StateRelation(property.Value) is { } found)
+                    {
+                        return found;
+                    }
+                }
+
+                return null;
+            case System.Text.Json.JsonValueKind.Array:
+                foreach (var item in element.EnumerateArray())
+                {
+                    if (StateRelation(item) is { } found)
+                    {
+                        return found;
+                    }
+                }
+
+                return null;
+            default:
+                return null;
+        }
     }
 
     private static NpgsqlCommand Command(NpgsqlConnection connection, NpgsqlTransaction transaction, string sql, DateTimeOffset start, DateTimeOffset end, DateTimeOffset? newFrom = null)

@@ -118,7 +118,7 @@ public sealed class DaemonSettingsTests
         Assert.Equal(3, warnings.Count);
         Assert.StartsWith("Daemon:Concurency is not a setting ModelWatch reads (known under Daemon: WorkerId, Concurrency, ", warnings[0], StringComparison.Ordinal);
         Assert.StartsWith("Notifications:Targets:pager:MinimumSeverty is not a setting ModelWatch reads (known under Notifications: Url, Secret, MinimumSeverity", warnings[1], StringComparison.Ordinal);
-        Assert.Equal("Sources:shop:Conection is not a setting ModelWatch reads (known under Sources: ConnectionString); it is ignored", warnings[2]);
+        Assert.Equal("Sources:shop:Conection is not a setting ModelWatch reads (known under Sources: ConnectionString, StatementTimeout); it is ignored", warnings[2]);
     }
 
     private static IConfiguration Settings(Dictionary<string, string?> values) => new ConfigurationBuilder().AddInMemoryCollection(values).Build();
