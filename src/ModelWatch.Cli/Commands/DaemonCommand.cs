@@ -58,8 +58,9 @@ internal static class DaemonCommand
 
                 return ExitCodes.RuntimeError;
             }
-            catch (IOException ex) when (ex.InnerException is System.Net.Sockets.SocketException || ex.Message.Contains("bind", StringComparison.OrdinalIgnoreCase))
+            catch (Exception ex) when (ex is System.Net.Sockets.SocketException || (ex is IOException && (ex.InnerException is System.Net.Sockets.SocketException || ex.Message.Contains("bind", StringComparison.OrdinalIgnoreCase))))
             {
+                // An address in use, or one this host does not have: the endpoint cannot start, so neither does the daemon.
                 error.WriteLine($"modelwatch daemon: the HTTP endpoint cannot listen (Http:Urls): {ex.Message}");
                 return ExitCodes.RuntimeError;
             }

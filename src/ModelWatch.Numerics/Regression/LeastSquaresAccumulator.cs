@@ -5,6 +5,13 @@ namespace ModelWatch.Numerics.Regression;
 /// by Householder reflections over row blocks. Memory is O(p²) plus one fixed block buffer, whatever the
 /// number of rows; nothing is allocated per row. Two accumulators over disjoint rows merge into the factor
 /// of their union (tall-skinny QR), so partitions can be read in parallel. Not thread-safe: use one per reader.
+/// <para>
+/// Each column enters the factor scaled by a power of two chosen from its first non-zero value (and raised if a much
+/// larger one arrives), so values near 1e160 do not overflow the reflections' sums of squares and values near 1e-200
+/// do not underflow them. Multiplying by a power of two is exact and Householder QR is equivariant under it, so the
+/// factor read out (unscaled again, also exactly) is bit for bit what unscaled arithmetic gives wherever that does
+/// not overflow or underflow, and right where it would.
+/// </para>
 /// </summary>
 public sealed class LeastSquaresAccumulator
 {
@@ -18,8 +25,15 @@ public sealed class LeastSquaresAccumulator
     private readonly double[] _block;
     private readonly ColumnSummary[] _columns;
     private readonly NonFiniteValuePolicy _policy;
+    private readonly int[] _exponent;
+    private readonly bool[] _scaled;
+    private readonly double[] _inverse;
+    private readonly double[] _ceiling;
     private int _pending;
     private long _offered;
+
+    // A value this many binary orders above its column's scale moves the scale up, so scaled values stay far from overflow.
+    private const int Headroom = 256;
 
     /// <summary>Creates an empty accumulator for a design.</summary>
     public LeastSquaresAccumulator(DesignLayout layout, NonFiniteValuePolicy policy = NonFiniteValuePolicy.Fail, int blockRows = DefaultBlockRows)
@@ -40,6 +54,18 @@ public sealed class LeastSquaresAccumulator
         }
 
         _columns[_featureCount] = new ColumnSummary(layout.Outcome);
+        _exponent = new int[_k];
+        _scaled = new bool[_k];
+        _inverse = new double[_k];
+        _ceiling = new double[_k];
+        Array.Fill(_inverse, 1.0);
+        Array.Fill(_ceiling, double.PositiveInfinity);
+        if (layout.Intercept)
+        {
+            // The intercept's column of ones needs no scale.
+            _scaled[0] = true;
+            _ceiling[0] = Math.ScaleB(1.0, Headroom);
+        }
     }
 
     /// <summary>The design this accumulator fits.</summary>
@@ -82,11 +108,11 @@ public sealed class LeastSquaresAccumulator
         for (int i = 0; i < features.Length; i++, column++)
         {
             double v = features[i];
-            _block[(column * _blockRows) + r] = v;
+            _block[(column * _blockRows) + r] = Scaled(column, v);
             _columns[i].Add(v);
         }
 
-        _block[(column * _blockRows) + r] = outcome;
+        _block[(column * _blockRows) + r] = Scaled(column, outcome);
         _columns[_featureCount].Add(outcome);
         RowCount++;
         if (++_pending == _blockRows)
@@ -137,7 +163,27 @@ public sealed class LeastSquaresAccumulator
 
         Flush();
         other.Flush();
-        FoldFactor(other._factor);
+        double[] theirs = (double[])other._factor.Clone();
+        for (int j = 0; j < _k; j++)
+        {
+            if (!other._scaled[j])
+            {
+                continue;
+            }
+
+            if (!_scaled[j])
+            {
+                SetScale(j, other._exponent[j]);
+            }
+            else if (other._exponent[j] > _exponent[j])
+            {
+                Rescale(j, other._exponent[j]);
+            }
+
+            ScaleColumn(theirs, j, other._exponent[j] - _exponent[j]);
+        }
+
+        FoldFactor(theirs);
         RowCount += other.RowCount;
         RejectedRowCount += other.RejectedRowCount;
         _offered += other._offered;
@@ -157,15 +203,123 @@ public sealed class LeastSquaresAccumulator
         }
 
         Flush();
-        FoldFactor(factor.ToRowMajor());
+        double[] theirs = factor.ToRowMajor();
+        for (int j = 0; j < _k; j++)
+        {
+            double largest = 0.0;
+            for (int i = 0; i <= j; i++)
+            {
+                largest = Math.Max(largest, Math.Abs(theirs[(i * _k) + j]));
+            }
+
+            if (largest == 0.0)
+            {
+                continue;
+            }
+
+            int needed = Math.ILogB(largest);
+            if (!_scaled[j])
+            {
+                SetScale(j, needed);
+            }
+            else if (needed - _exponent[j] > Headroom)
+            {
+                Rescale(j, needed);
+            }
+
+            ScaleColumn(theirs, j, -_exponent[j]);
+        }
+
+        FoldFactor(theirs);
         RowCount += factor.RowCount;
     }
 
     /// <summary>Returns the sign-normalised factor of every row folded in so far.</summary>
+    /// <exception cref="ColumnScaleException">An entry of the unscaled factor does not fit in double precision.</exception>
     public AugmentedFactor ToFactor()
     {
         Flush();
-        return AugmentedFactor.FromRowMajor(Layout, RowCount, _factor, _columns.Select(c => c.Copy()).ToArray());
+        double[] unscaled = (double[])_factor.Clone();
+        for (int j = 0; j < _k; j++)
+        {
+            ScaleColumn(unscaled, j, _exponent[j]);
+            for (int i = 0; i <= j; i++)
+            {
+                if (!double.IsFinite(unscaled[(i * _k) + j]))
+                {
+                    throw new ColumnScaleException(Layout.Terms.Append(Layout.Outcome).ElementAt(j), "the root sum of its squared values over the rows");
+                }
+            }
+        }
+
+        return AugmentedFactor.FromRowMajor(Layout, RowCount, unscaled, _columns.Select(c => c.Copy()).ToArray());
+    }
+
+    /// <summary>A value as it enters the factor: scaled by its column's power of two, set or raised as needed.</summary>
+    private double Scaled(int column, double value)
+    {
+        double magnitude = Math.Abs(value);
+        if (magnitude > _ceiling[column] || (!_scaled[column] && magnitude > 0.0))
+        {
+            int needed = Math.ILogB(value);
+            if (!_scaled[column])
+            {
+                SetScale(column, needed);
+            }
+            else
+            {
+                Rescale(column, needed);
+            }
+        }
+
+        return value * _inverse[column];
+    }
+
+    private void SetScale(int column, int exponent)
+    {
+        // Subnormal and near-overflow exponents are clamped so the scale itself is a normal power of two.
+        exponent = Math.Clamp(exponent, -1000, 1000);
+        _scaled[column] = true;
+        _exponent[column] = exponent;
+        _inverse[column] = Math.ScaleB(1.0, -exponent);
+        _ceiling[column] = Math.ScaleB(1.0, Math.Min(exponent + Headroom, 1023));
+        if (exponent + Headroom >= 1023)
+        {
+            _ceiling[column] = double.PositiveInfinity;
+        }
+    }
+
+    /// <summary>Moves a column's scale up to <paramref name="exponent"/>: its factor entries and buffered values are divided exactly.</summary>
+    private void Rescale(int column, int exponent)
+    {
+        int shift = Math.Clamp(exponent, -1000, 1000) - _exponent[column];
+        if (shift <= 0)
+        {
+            return;
+        }
+
+        ScaleColumn(_factor, column, -shift);
+        Span<double> buffered = _block.AsSpan(column * _blockRows, _pending);
+        for (int r = 0; r < buffered.Length; r++)
+        {
+            buffered[r] = Math.ScaleB(buffered[r], -shift);
+        }
+
+        SetScale(column, exponent);
+    }
+
+    /// <summary>Multiplies column <paramref name="column"/> of a row-major k×k factor by 2^<paramref name="power"/>.</summary>
+    private void ScaleColumn(double[] factor, int column, int power)
+    {
+        if (power == 0)
+        {
+            return;
+        }
+
+        for (int i = 0; i <= column; i++)
+        {
+            factor[(i * _k) + column] = Math.ScaleB(factor[(i * _k) + column], power);
+        }
     }
 
     private bool IsRowFinite(ReadOnlySpan<double> features, double outcome)

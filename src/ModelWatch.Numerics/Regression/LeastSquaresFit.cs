@@ -7,7 +7,10 @@ namespace ModelWatch.Numerics.Regression;
 /// <summary>
 /// Reads a complete fit summary off an augmented factor <c>T</c>: coefficients by back substitution,
 /// standard errors from the rows of <c>R⁻¹</c>, rank from the SVD of the equilibrated p×p factor. Never forms
-/// the normal equations and never touches the raw rows.
+/// the normal equations and never touches the raw rows. The factor's columns are first scaled by powers of two to
+/// order one (exact, and QR and back substitution are equivariant under it), so sums of squares neither overflow for
+/// values near 1e160 nor underflow for values near 1e-200, and every result is scaled back exactly: a problem multiplied
+/// by 2^k gives the same digits, scaled by 2^k.
 /// </summary>
 public static class LeastSquaresFit
 {
@@ -15,9 +18,111 @@ public static class LeastSquaresFit
     public const double IllConditionedThreshold = 1e8;
 
     /// <summary>Fits the model whose rows were folded into <paramref name="factor"/>.</summary>
+    /// <exception cref="ColumnScaleException">A coefficient, a standard error or the residual SD does not fit in double precision.</exception>
     public static FitSummary Fit(AugmentedFactor factor)
     {
         ArgumentNullException.ThrowIfNull(factor);
+        int[] exponents = ColumnExponents(factor);
+        if (exponents.All(e => e == 0))
+        {
+            return FitScaled(factor, factor, exponents);
+        }
+
+        int k = factor.Width;
+        double[] scaled = factor.ToRowMajor();
+        for (int i = 0; i < k; i++)
+        {
+            for (int j = i; j < k; j++)
+            {
+                scaled[(i * k) + j] = Math.ScaleB(scaled[(i * k) + j], -exponents[j]);
+            }
+        }
+
+        FitSummary fit = FitScaled(AugmentedFactor.FromRowMajor(factor.Layout, factor.RowCount, scaled, factor.Columns), factor, exponents);
+        return Unscale(fit, exponents);
+    }
+
+    /// <summary>Per augmented column, the power of two of its largest entry (0 for a zero column), clamped to normal scales.</summary>
+    private static int[] ColumnExponents(AugmentedFactor factor)
+    {
+        int k = factor.Width;
+        var exponents = new int[k];
+        for (int j = 0; j < k; j++)
+        {
+            double largest = 0.0;
+            for (int i = 0; i <= j; i++)
+            {
+                largest = Math.Max(largest, Math.Abs(factor[i, j]));
+            }
+
+            exponents[j] = largest > 0.0 ? Math.Clamp(Math.ILogB(largest), -1000, 1000) : 0;
+        }
+
+        return exponents;
+    }
+
+    /// <summary>A fit of the scaled factor in the original columns' units (coefficient j scales by 2^(e_y − e_j)).</summary>
+    private static FitSummary Unscale(FitSummary fit, int[] e)
+    {
+        DesignLayout layout = fit.Layout;
+        int p = layout.ParameterCount;
+        int ey = e[p];
+        var coefficients = new CoefficientEstimate[p];
+        for (int j = 0; j < p; j++)
+        {
+            CoefficientEstimate c = fit.Coefficients[j];
+            double? estimate = c.Estimate is { } b ? Math.ScaleB(b, ey - e[j]) : null;
+            double? se = c.StandardError is { } s ? Math.ScaleB(s, ey - e[j]) : null;
+            if ((estimate is { } be && !double.IsFinite(be) && double.IsFinite(c.Estimate!.Value)) || (se is { } ss && double.IsInfinity(ss) && double.IsFinite(c.StandardError!.Value)))
+            {
+                throw new ColumnScaleException(layout.Terms[j], "its coefficient or standard error, in the units of the outcome over this column,");
+            }
+
+            coefficients[j] = c with { Estimate = estimate, StandardError = se };
+        }
+
+        var covariance = new double[p, p];
+        for (int i = 0; i < p; i++)
+        {
+            for (int j = 0; j < p; j++)
+            {
+                covariance[i, j] = Math.ScaleB(fit.Covariance[i, j], (2 * ey) - e[i] - e[j]);
+            }
+        }
+
+        double sd = Math.ScaleB(fit.ResidualStandardDeviation, ey);
+        if (double.IsInfinity(sd))
+        {
+            throw new ColumnScaleException(layout.Outcome, "the residual standard deviation");
+        }
+
+        // The sums of squares may exceed double precision where their square roots do not: they are reported as +∞ then.
+        return new FitSummary
+        {
+            Layout = fit.Layout,
+            Factor = fit.Factor,
+            Rank = fit.Rank,
+            RankTolerance = fit.RankTolerance,
+            RankDeficiency = fit.RankDeficiency,
+            Coefficients = coefficients,
+            Covariance = covariance,
+            ResidualSumOfSquares = Math.ScaleB(fit.ResidualSumOfSquares, 2 * ey),
+            ResidualDegreesOfFreedom = fit.ResidualDegreesOfFreedom,
+            ResidualStandardDeviation = sd,
+            TotalSumOfSquares = Math.ScaleB(fit.TotalSumOfSquares, 2 * ey),
+            RSquared = fit.RSquared,
+            AdjustedRSquared = fit.AdjustedRSquared,
+            FStatistic = fit.FStatistic,
+            FPValue = fit.FPValue,
+            ConditionNumber = fit.ConditionNumber,
+            SingularValues = fit.SingularValues,
+            VarianceInflationFactors = fit.VarianceInflationFactors,
+            Warnings = fit.Warnings,
+        };
+    }
+
+    private static FitSummary FitScaled(AugmentedFactor factor, AugmentedFactor original, int[] exponents)
+    {
         DesignLayout layout = factor.Layout;
         int p = layout.ParameterCount;
         long n = factor.RowCount;
@@ -92,10 +197,10 @@ public static class LeastSquaresFit
         return new FitSummary
         {
             Layout = layout,
-            Factor = factor,
+            Factor = original,
             Rank = rank,
             RankTolerance = decision.RelativeTolerance,
-            RankDeficiency = rank == p ? null : DescribeDeficiency(factor, r, decision),
+            RankDeficiency = rank == p ? null : DescribeDeficiency(factor, r, decision, exponents),
             Coefficients = coefficients,
             Covariance = covariance,
             ResidualSumOfSquares = rss,
@@ -225,7 +330,7 @@ public static class LeastSquaresFit
         return warnings;
     }
 
-    private static RankDeficiency DescribeDeficiency(AugmentedFactor factor, double[,] r, RankDecision decision)
+    private static RankDeficiency DescribeDeficiency(AugmentedFactor factor, double[,] r, RankDecision decision, int[] exponents)
     {
         DesignLayout layout = factor.Layout;
         int p = layout.ParameterCount;
@@ -239,13 +344,13 @@ public static class LeastSquaresFit
 
         foreach (int j in aliased)
         {
-            reasons.Add(ExplainAliased(factor, r, decision, j));
+            reasons.Add(ExplainAliased(factor, r, decision, j, exponents));
         }
 
         return new RankDeficiency(aliased.Select(j => layout.Terms[j]).ToList(), reasons);
     }
 
-    private static string ExplainAliased(AugmentedFactor factor, double[,] r, RankDecision decision, int column)
+    private static string ExplainAliased(AugmentedFactor factor, double[,] r, RankDecision decision, int column, int[] exponents)
     {
         DesignLayout layout = factor.Layout;
         string term = layout.Terms[column];
@@ -272,7 +377,9 @@ public static class LeastSquaresFit
             double share = Math.Abs(weights[a]) * decision.ColumnNorms[kept[a]] / decision.ColumnNorms[column];
             if (share > 1e-8)
             {
-                parts.Add(string.Create(CultureInfo.InvariantCulture, $"{weights[a]:G6}·{layout.Terms[kept[a]]}"));
+                // The weights relate scaled columns; in the columns' own units they carry the ratio of the scales.
+                double weight = Math.ScaleB(weights[a], exponents[column] - exponents[kept[a]]);
+                parts.Add(string.Create(CultureInfo.InvariantCulture, $"{weight:G6}·{layout.Terms[kept[a]]}"));
             }
         }
 

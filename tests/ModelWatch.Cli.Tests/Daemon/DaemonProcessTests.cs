@@ -90,6 +90,20 @@ public sealed class DaemonProcessTests(PostgresDatabase database) : IClassFixtur
     }
 
     [Fact]
+    public async Task An_address_this_host_does_not_have_is_one_line_and_exit_three()
+    {
+        using ModelWatchProcess daemon = ModelWatchProcess.Start(new Dictionary<string, string>
+        {
+            ["ConnectionStrings__State"] = database.ConnectionString,
+            ["Http__Enabled"] = "true",
+            ["Http__Urls"] = "http://192.0.2.1:9464",
+        }, _folder, "daemon");
+
+        Assert.Equal(3, await daemon.ExitCodeAsync(Limit));
+        Assert.Contains("modelwatch daemon: the HTTP endpoint cannot listen (Http:Urls):", daemon.Error, StringComparison.Ordinal);
+    }
+
+    [Fact]
     public async Task Commands_read_the_settings_file_named_by_the_environment_as_the_daemon_does()
     {
         await MigrationRunner.MigrateAsync(database.DataSource, TimeSpan.FromMinutes(1), CancellationToken.None);
