@@ -2,6 +2,7 @@ using System.Diagnostics;
 using System.Globalization;
 using ModelWatch.Daemon.Notifications;
 using ModelWatch.Daemon.Options;
+using ModelWatch.Testing.Repository;
 
 namespace ModelWatch.Daemon.Tests.Notifications;
 
@@ -50,15 +51,7 @@ public sealed class WebhookVerifierDocsTests
         }
     }
 
-    private static string DocumentedVerifier()
-    {
-        string docs = File.ReadAllText(Path.Combine(RepositoryRoot(), "docs", "operations.md"));
-        int section = docs.IndexOf("### Verifying a webhook", StringComparison.Ordinal);
-        int start = docs.IndexOf("```python\n", section, StringComparison.Ordinal) + "```python\n".Length;
-        int end = docs.IndexOf("```", start, StringComparison.Ordinal);
-        Assert.True(section >= 0 && start > section && end > start, "docs/operations.md has no verifier under 'Verifying a webhook'");
-        return docs[start..end];
-    }
+    private static string DocumentedVerifier() => RepositoryFiles.CodeBlock("operations.md", "### Verifying a webhook", "python");
 
     private static async Task<string> RunAsync(string script, params object[] args)
     {
@@ -75,18 +68,5 @@ public sealed class WebhookVerifierDocsTests
         await process.WaitForExitAsync();
         Assert.True(process.ExitCode == 0, error);
         return output.Trim();
-    }
-
-    private static string RepositoryRoot()
-    {
-        for (DirectoryInfo? dir = new(AppContext.BaseDirectory); dir is not null; dir = dir.Parent)
-        {
-            if (File.Exists(Path.Combine(dir.FullName, "ModelWatch.sln")))
-            {
-                return dir.FullName;
-            }
-        }
-
-        throw new DirectoryNotFoundException("ModelWatch.sln not found above " + AppContext.BaseDirectory);
     }
 }

@@ -2,6 +2,7 @@ using ModelWatch.Store.Specs;
 using ModelWatch.Store.Tests.Support;
 using ModelWatch.Store.Windows;
 using ModelWatch.Testing.Postgres;
+using ModelWatch.Testing.Repository;
 using Npgsql;
 
 namespace ModelWatch.Store.Tests.Windows;
@@ -103,15 +104,7 @@ public sealed class SourceSafetyTests(PostgresDatabase database) : IClassFixture
 
     private string As(string role) => new NpgsqlConnectionStringBuilder(database.ConnectionString) { Username = role, Password = "reader-test-only", Pooling = false }.ConnectionString;
 
-    private static string DocumentedReaderRecipe()
-    {
-        string docs = File.ReadAllText(Path.Combine(RepositoryRoot(), "docs", "operations.md"));
-        int section = docs.IndexOf("Each data source — read-only", StringComparison.Ordinal);
-        int start = docs.IndexOf("```sql\n", section, StringComparison.Ordinal) + "```sql\n".Length;
-        int end = docs.IndexOf("```", start, StringComparison.Ordinal);
-        Assert.True(section >= 0 && start > section && end > start, "docs/operations.md has no reader recipe");
-        return docs[start..end];
-    }
+    private static string DocumentedReaderRecipe() => RepositoryFiles.CodeBlock("operations.md", "Each data source — read-only", "sql");
 
     private static async Task ExecuteAsync(NpgsqlDataSource source, string sql)
     {
@@ -131,18 +124,5 @@ public sealed class SourceSafetyTests(PostgresDatabase database) : IClassFixture
         {
             return ex.SqlState;
         }
-    }
-
-    private static string RepositoryRoot()
-    {
-        for (DirectoryInfo? dir = new(AppContext.BaseDirectory); dir is not null; dir = dir.Parent)
-        {
-            if (File.Exists(Path.Combine(dir.FullName, "ModelWatch.sln")))
-            {
-                return dir.FullName;
-            }
-        }
-
-        throw new DirectoryNotFoundException("ModelWatch.sln not found above " + AppContext.BaseDirectory);
     }
 }
