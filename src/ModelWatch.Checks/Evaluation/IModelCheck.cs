@@ -22,6 +22,12 @@ public interface IModelCheck
     /// <summary>What an alert of this check means, how to confirm it and what to do.</summary>
     RunbookEntry Runbook { get; }
 
+    /// <summary>
+    /// True when an open alert of this check resolves on the first run with nothing above ok (a fault clears when the
+    /// fault does), rather than after the model's <c>resolve_after_ok_windows</c>.
+    /// </summary>
+    bool ResolvesOnFirstOkRun => false;
+
     /// <summary>Runs the check on one window.</summary>
     CheckResult Run(CheckInput input);
 }

@@ -1,4 +1,5 @@
 using System.Globalization;
+using ModelWatch.Checks.Evaluation;
 using ModelWatch.Checks.Findings;
 
 namespace ModelWatch.Checks.Policy;
@@ -94,8 +95,7 @@ public static class AlertPolicy
         }
 
         int ok = worst.Severity == Severity.Ok ? state.ConsecutiveOk + 1 : 0;
-        // A fault of the source clears when the fault does: one run that reads its window is the evidence.
-        int needed = state.Check == CheckNames.Source ? 1 : t.ResolveAfterOkWindows;
+        int needed = CheckRegistry.Find(state.Check) is { ResolvesOnFirstOkRun: true } ? 1 : t.ResolveAfterOkWindows;
         return ok >= needed
             ? new AlertDecision { Check = state.Check, Subject = state.Subject, Action = AlertAction.Resolve, Evidence = worst, Reason = string.Create(CultureInfo.InvariantCulture, $"{ok} evaluated runs in a row with nothing above ok"), State = next with { Open = false, ConsecutiveOk = 0 } }
             : new AlertDecision { Check = state.Check, Subject = state.Subject, Action = AlertAction.None, Evidence = worst, Reason = worst.Severity == Severity.Warning ? "warning keeps the alert open" : string.Create(CultureInfo.InvariantCulture, $"ok for {ok} of {needed} runs needed to resolve"), State = next with { ConsecutiveOk = ok } };

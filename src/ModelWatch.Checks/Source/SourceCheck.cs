@@ -41,6 +41,9 @@ public sealed class SourceCheck : IModelCheck
     public IReadOnlyList<AlarmChannel> Channels { get; } = [];
 
     /// <inheritdoc />
+    public bool ResolvesOnFirstOkRun => true;
+
+    /// <inheritdoc />
     public RunbookEntry Runbook { get; } = new(
         CheckNames.Source,
         "The model is not being watched: its runs keep failing (the alert text carries the last error), or its source answers but its newest row is older than the staleness limit. Every other check of the model is silent meanwhile.",

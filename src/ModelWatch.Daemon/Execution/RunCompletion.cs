@@ -96,7 +96,7 @@ public sealed class RunCompletion(
     {
         CheckResult? source = outcome.Results.FirstOrDefault(r => r.Check == CheckNames.Source);
         return new ModelGaugeValues(
-            outcome.Measurements ?? ModelGaugeValues.NotMeasured,
+            outcome.Measurements ?? RunMeasurements.None,
             open.Warnings,
             open.Criticals,
             open.Source > 0,

@@ -140,8 +140,7 @@ public static class DaemonHost
         if (OtlpSettings.Configured(configuration))
         {
             // Ordinary logs only: alert events are exported once, by the OpenTelemetry pipeline that keeps their EventName.
-            string worker = configuration[$"{DaemonOptions.Section}:{nameof(DaemonOptions.WorkerId)}"] is { Length: > 0 } w ? w : new DaemonOptions().WorkerId;
-            Dictionary<string, object> resource = TelemetryResource.AsDictionary(configuration, worker);
+            Dictionary<string, object> resource = TelemetryResource.AsDictionary(configuration, TelemetryResource.WorkerId(configuration));
             logger.WriteTo.Logger(otlp => otlp
                 .Filter.ByExcluding(Matching.FromSource<AlertEventLogger>())
                 .WriteTo.OpenTelemetry(o =>

@@ -96,7 +96,7 @@ public static class DaemonServiceCollectionExtensions
     {
         ArgumentNullException.ThrowIfNull(configuration);
         var telemetry = configuration.GetSection(TelemetryOptions.Section).Get<TelemetryOptions>() ?? new TelemetryOptions();
-        string worker = configuration[$"{DaemonOptions.Section}:{nameof(DaemonOptions.WorkerId)}"] is { Length: > 0 } w ? w : new DaemonOptions().WorkerId;
+        string worker = TelemetryResource.WorkerId(configuration);
         var builder = services.AddOpenTelemetry()
             .ConfigureResource(r => TelemetryResource.Configure(r, configuration, worker))
             .WithMetrics(m =>

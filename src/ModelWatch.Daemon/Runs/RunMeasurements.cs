@@ -5,4 +5,8 @@ namespace ModelWatch.Daemon.Runs;
 /// <param name="ConditionNumber">Scaled condition number of the window's design.</param>
 /// <param name="MaxCoefficientZ">Largest |z| of a coefficient against the baseline.</param>
 /// <param name="MaxPsi">Largest population stability index over the features.</param>
-public sealed record RunMeasurements(double RmseRatio, double ConditionNumber, double MaxCoefficientZ, double MaxPsi);
+public sealed record RunMeasurements(double RmseRatio, double ConditionNumber, double MaxCoefficientZ, double MaxPsi)
+{
+    /// <summary>Nothing measured: the values of a run that measured nothing.</summary>
+    public static RunMeasurements None { get; } = new(double.NaN, double.NaN, double.NaN, double.NaN);
+}

@@ -43,8 +43,5 @@ public sealed record ModelGaugeValues(
         };
     }
 
-    /// <summary>Nothing measured: the values of a run that measured nothing.</summary>
-    public static RunMeasurements NotMeasured { get; } = new(double.NaN, double.NaN, double.NaN, double.NaN);
-
     private static double Keep(double latest, double earlier) => double.IsFinite(latest) ? latest : earlier;
 }

@@ -30,17 +30,7 @@ public static class OtlpSettings
     public static Dictionary<string, string> Headers(IConfiguration configuration)
     {
         ArgumentNullException.ThrowIfNull(configuration);
-        var headers = new Dictionary<string, string>(StringComparer.OrdinalIgnoreCase);
-        foreach (string pair in (configuration["OTEL_EXPORTER_OTLP_HEADERS"] ?? string.Empty).Split(',', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries))
-        {
-            int eq = pair.IndexOf('=', StringComparison.Ordinal);
-            if (eq > 0)
-            {
-                headers[pair[..eq].Trim()] = Uri.UnescapeDataString(pair[(eq + 1)..].Trim());
-            }
-        }
-
-        return headers;
+        return OtelKeyValueList.Parse(configuration["OTEL_EXPORTER_OTLP_HEADERS"], StringComparer.OrdinalIgnoreCase);
     }
 
     /// <summary>Sets an SDK exporter's options for logs from configuration.</summary>

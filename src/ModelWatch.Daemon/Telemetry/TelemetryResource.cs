@@ -1,4 +1,5 @@
 using Microsoft.Extensions.Configuration;
+using ModelWatch.Daemon.Options;
 using OpenTelemetry.Resources;
 
 namespace ModelWatch.Daemon.Telemetry;
@@ -29,17 +30,7 @@ public static class TelemetryResource
     public static Dictionary<string, string> Attributes(IConfiguration configuration)
     {
         ArgumentNullException.ThrowIfNull(configuration);
-        var attributes = new Dictionary<string, string>(StringComparer.Ordinal);
-        foreach (string pair in (configuration["OTEL_RESOURCE_ATTRIBUTES"] ?? string.Empty).Split(',', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries))
-        {
-            int eq = pair.IndexOf('=', StringComparison.Ordinal);
-            if (eq > 0)
-            {
-                attributes[pair[..eq].Trim()] = Uri.UnescapeDataString(pair[(eq + 1)..].Trim());
-            }
-        }
-
-        return attributes;
+        return OtelKeyValueList.Parse(configuration["OTEL_RESOURCE_ATTRIBUTES"]);
     }
 
     /// <summary>Everything the resource holds beyond the SDK's own attributes, for sinks that take a dictionary.</summary>
@@ -49,6 +40,13 @@ public static class TelemetryResource
         all["service.name"] = ServiceName(configuration);
         all.TryAdd("service.instance.id", workerId);
         return all;
+    }
+
+    /// <summary>The worker id the daemon will use (<c>Daemon:WorkerId</c>, else its default), for <c>service.instance.id</c>.</summary>
+    public static string WorkerId(IConfiguration configuration)
+    {
+        ArgumentNullException.ThrowIfNull(configuration);
+        return configuration[$"{DaemonOptions.Section}:{nameof(DaemonOptions.WorkerId)}"] is { Length: > 0 } worker ? worker : new DaemonOptions().WorkerId;
     }
 
     /// <summary>Sets the resource of an SDK provider: the SDK's defaults, then these attributes (which win).</summary>

@@ -58,8 +58,8 @@ public sealed class LeastSquaresAccumulator
         _scaled = new bool[_k];
         _inverse = new double[_k];
         _ceiling = new double[_k];
+        // An unscaled column's ceiling is 0: its first non-zero value crosses it and sets the scale.
         Array.Fill(_inverse, 1.0);
-        Array.Fill(_ceiling, double.PositiveInfinity);
         if (layout.Intercept)
         {
             // The intercept's column of ones needs no scale.
@@ -258,8 +258,7 @@ public sealed class LeastSquaresAccumulator
     /// <summary>A value as it enters the factor: scaled by its column's power of two, set or raised as needed.</summary>
     private double Scaled(int column, double value)
     {
-        double magnitude = Math.Abs(value);
-        if (magnitude > _ceiling[column] || (!_scaled[column] && magnitude > 0.0))
+        if (Math.Abs(value) > _ceiling[column])
         {
             int needed = Math.ILogB(value);
             if (!_scaled[column])
@@ -282,11 +281,7 @@ public sealed class LeastSquaresAccumulator
         _scaled[column] = true;
         _exponent[column] = exponent;
         _inverse[column] = Math.ScaleB(1.0, -exponent);
-        _ceiling[column] = Math.ScaleB(1.0, Math.Min(exponent + Headroom, 1023));
-        if (exponent + Headroom >= 1023)
-        {
-            _ceiling[column] = double.PositiveInfinity;
-        }
+        _ceiling[column] = exponent + Headroom >= 1023 ? double.PositiveInfinity : Math.ScaleB(1.0, exponent + Headroom);
     }
 
     /// <summary>Moves a column's scale up to <paramref name="exponent"/>: its factor entries and buffered values are divided exactly.</summary>

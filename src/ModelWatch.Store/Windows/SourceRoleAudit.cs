@@ -1,7 +1,5 @@
-using System.Text.Json;
 using ModelWatch.Store.Specs;
 using Npgsql;
-using NpgsqlTypes;
 
 namespace ModelWatch.Store.Windows;
 
@@ -50,7 +48,9 @@ public static class SourceRoleAudit
             }
         }
 
-        foreach ((string schema, string table) in await RelationsAsync(connection, spec, cancellationToken))
+        // Planning needs parameter values, not meaningful ones: the plan's relations do not depend on them.
+        var day = new DateTimeOffset(2000, 1, 1, 0, 0, 0, TimeSpan.Zero);
+        foreach ((string schema, string table) in await QueryPlan.RelationsAsync(connection, null, spec.Query, day, day.AddDays(1), 30, cancellationToken))
         {
             await using var privileges = new NpgsqlCommand(
                 """
@@ -77,42 +77,6 @@ public static class SourceRoleAudit
         }
 
         return warnings;
-    }
-
-    private static async Task<List<(string Schema, string Table)>> RelationsAsync(NpgsqlConnection connection, ModelSpec spec, CancellationToken cancellationToken)
-    {
-        // Planning needs parameter values, not meaningful ones: the plan's relations do not depend on them.
-        await using var explain = new NpgsqlCommand("EXPLAIN (VERBOSE, FORMAT JSON) " + spec.Query, connection);
-        var epoch = new DateTime(2000, 1, 1, 0, 0, 0, DateTimeKind.Utc);
-        explain.Parameters.Add(new NpgsqlParameter("window_start", NpgsqlDbType.TimestampTz) { Value = epoch });
-        explain.Parameters.Add(new NpgsqlParameter("window_end", NpgsqlDbType.TimestampTz) { Value = epoch.AddDays(1) });
-        using JsonDocument plan = JsonDocument.Parse((string)(await explain.ExecuteScalarAsync(cancellationToken))!);
-        var found = new List<(string, string)>();
-        Collect(plan.RootElement, found);
-        return [.. found.Distinct()];
-    }
-
-    private static void Collect(JsonElement element, List<(string, string)> found)
-    {
-        if (element.ValueKind == JsonValueKind.Object)
-        {
-            if (element.TryGetProperty("Schema", out JsonElement schema) && element.TryGetProperty("Relation Name", out JsonElement name))
-            {
-                found.Add((schema.GetString()!, name.GetString()!));
-            }
-
-            foreach (JsonProperty property in element.EnumerateObject())
-            {
-                Collect(property.Value, found);
-            }
-        }
-        else if (element.ValueKind == JsonValueKind.Array)
-        {
-            foreach (JsonElement item in element.EnumerateArray())
-            {
-                Collect(item, found);
-            }
-        }
     }
 
     private static async Task<object?> Scalar(NpgsqlConnection connection, string sql, CancellationToken cancellationToken)

@@ -206,58 +206,17 @@ public sealed class WindowReader
             problems = ColumnCheck.Check(spec, reader, out needsCast);
         }
 
-        if (spec.Source is null && await StateSchemaRelationAsync(connection, transaction, spec, start, end, cancellationToken) is { } relation)
+        if (spec.Source is null
+            && (await QueryPlan.RelationsAsync(connection, transaction, spec.Query, start, end, (int)Math.Ceiling(_options.CommandTimeout.TotalSeconds), cancellationToken))
+                .FirstOrDefault(r => r.Schema == "modelwatch") is { Schema: not null } state)
         {
+            string relation = $"{state.Schema}.{state.Relation}";
             // A spec without a source reads the state database with the daemon's own role: it must not read ModelWatch's tables.
             throw new WindowReadException(spec.Key, WindowReadFailure.QueryError, null,
                 $"model {spec.Key}: the query reads {relation}, ModelWatch's own state; a spec without 'source:' may read other schemas of the state database only. Name a data source with its own read-only role");
         }
 
         return (problems, needsCast);
-    }
-
-    /// <summary>A relation of the <c>modelwatch</c> schema the query's plan reads (views are expanded in the plan), or null.</summary>
-    private async Task<string?> StateSchemaRelationAsync(NpgsqlConnection connection, NpgsqlTransaction transaction, ModelSpec spec, DateTimeOffset start, DateTimeOffset end, CancellationToken cancellationToken)
-    {
-        await using NpgsqlCommand explain = Command(connection, transaction, "EXPLAIN (VERBOSE, FORMAT JSON) " + spec.Query, start, end);
-        explain.CommandTimeout = (int)Math.Ceiling(_options.CommandTimeout.TotalSeconds);
-        string plan = (string)(await explain.ExecuteScalarAsync(cancellationToken))!;
-        using var document = System.Text.Json.JsonDocument.Parse(plan);
-        return StateRelation(document.RootElement);
-    }
-
-    private static string? StateRelation(System.Text.Json.JsonElement element)
-    {
-        switch (element.ValueKind)
-        {
-            case System.Text.Json.JsonValueKind.Object:
-                if (element.TryGetProperty("Schema", out var schema) && schema.GetString() == "modelwatch")
-                {
-                    return "modelwatch." + (element.TryGetProperty("Relation Name", out var name) ? name.GetString() : "?");
-                }
-
-                foreach (var property in element.EnumerateObject())
-                {
-                    if (StateRelation(property.Value) is { } found)
-                    {
-                        return found;
-                    }
-                }
-
-                return null;
-            case System.Text.Json.JsonValueKind.Array:
-                foreach (var item in element.EnumerateArray())
-                {
-                    if (StateRelation(item) is { } found)
-                    {
-                        return found;
-                    }
-                }
-
-                return null;
-            default:
-                return null;
-        }
     }
 
     private static NpgsqlCommand Command(NpgsqlConnection connection, NpgsqlTransaction transaction, string sql, DateTimeOffset start, DateTimeOffset end, DateTimeOffset? newFrom = null)

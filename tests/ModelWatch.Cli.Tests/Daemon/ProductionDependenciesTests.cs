@@ -1,4 +1,5 @@
 using System.Text.Json;
+using ModelWatch.Testing.Repository;
 
 namespace ModelWatch.Cli.Tests.Daemon;
 
@@ -8,7 +9,7 @@ public sealed class ProductionDependenciesTests
     [Fact]
     public void The_executable_carries_no_container_client()
     {
-        string lockFile = Path.Combine(RepositoryRoot(), "src", "ModelWatch.Cli", "packages.lock.json");
+        string lockFile = Path.Combine(RepositoryFiles.Root(), "src", "ModelWatch.Cli", "packages.lock.json");
         using JsonDocument document = JsonDocument.Parse(File.ReadAllText(lockFile));
         string[] packages = [.. document.RootElement.GetProperty("dependencies").EnumerateObject().SelectMany(framework => framework.Value.EnumerateObject()).Select(p => p.Name)];
 
@@ -17,18 +18,5 @@ public sealed class ProductionDependenciesTests
             || p.StartsWith("Docker.DotNet", StringComparison.OrdinalIgnoreCase)
             || p.StartsWith("SSH.NET", StringComparison.OrdinalIgnoreCase)
             || p.Contains("BouncyCastle", StringComparison.OrdinalIgnoreCase));
-    }
-
-    private static string RepositoryRoot()
-    {
-        for (DirectoryInfo? dir = new(AppContext.BaseDirectory); dir is not null; dir = dir.Parent)
-        {
-            if (File.Exists(Path.Combine(dir.FullName, "ModelWatch.sln")))
-            {
-                return dir.FullName;
-            }
-        }
-
-        throw new DirectoryNotFoundException("ModelWatch.sln not found above " + AppContext.BaseDirectory);
     }
 }

@@ -50,7 +50,7 @@ public sealed class ModelWatchMetricsTests
 
         // A failed run measures nothing: the measured gauges keep their values; the failure count and run age move on.
         time.Advance(TimeSpan.FromHours(6));
-        metrics.Update("gauge-courier", Values(ModelGaugeValues.NotMeasured, failures: 1, lastRun: time.GetUtcNow()));
+        metrics.Update("gauge-courier", Values(RunMeasurements.None, failures: 1, lastRun: time.GetUtcNow()));
         time.Advance(TimeSpan.FromMinutes(30));
         provider.ForceFlush();
 
