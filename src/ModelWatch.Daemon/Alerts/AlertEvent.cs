@@ -2,7 +2,7 @@ namespace ModelWatch.Daemon.Alerts;
 
 /// <summary>One alert transition, as published to the logging pipeline and to notification targets.</summary>
 /// <param name="AlertId">The stored alert's id.</param>
-/// <param name="Transition">What happened: <c>opened</c>, <c>escalated</c>, <c>acknowledged</c>, <c>resolved</c>, <c>reopened</c>.</param>
+/// <param name="Transition">What happened: <c>opened</c>, <c>escalated</c>, <c>acknowledged</c>, <c>resolved</c>, <c>superseded</c>.</param>
 /// <param name="Model">Model key.</param>
 /// <param name="Check">Check name.</param>
 /// <param name="Subject">Coefficient or feature, or null for a model-wide finding.</param>
@@ -29,6 +29,12 @@ public sealed record AlertEvent(
 {
     /// <summary>The stored event's id (<c>modelwatch.alert_event</c>), or null when not known; receivers may deduplicate on it.</summary>
     public long? EventId { get; init; }
+
+    /// <summary>For an <c>opened</c> alert whose condition came back after resolution, the alert before it; otherwise null.</summary>
+    public long? PreviousAlertId { get; init; }
+
+    /// <summary>The evidence page of this alert when <c>Web:PublicBaseUrl</c> is set; otherwise null.</summary>
+    public string? EvidenceUrl { get; init; }
 
     /// <summary>The stable OpenTelemetry event name of this transition, e.g. <c>modelwatch.alert.opened</c>.</summary>
     public string EventName => "modelwatch.alert." + Transition;

@@ -16,8 +16,7 @@ public sealed class AlertEventLogger(ILogger<AlertEventLogger> logger)
         ["escalated"] = 3002,
         ["acknowledged"] = 3003,
         ["resolved"] = 3004,
-        ["reopened"] = 3005,
-        ["silenced"] = 3006,
+        ["superseded"] = 3007,
     };
 
     /// <summary>Logs one transition.</summary>
@@ -25,7 +24,7 @@ public sealed class AlertEventLogger(ILogger<AlertEventLogger> logger)
     {
         ArgumentNullException.ThrowIfNull(alert);
         int id = EventIds.GetValueOrDefault(alert.Transition, 3000);
-        LogLevel level = alert.Severity == "critical" && alert.Transition is "opened" or "escalated" or "reopened" ? LogLevel.Error : LogLevel.Warning;
+        LogLevel level = alert.Severity == "critical" && alert.Transition is "opened" or "escalated" ? LogLevel.Error : LogLevel.Warning;
         var state = new List<KeyValuePair<string, object?>>
         {
             new("modelwatch.alert.id", alert.AlertId),
@@ -38,7 +37,18 @@ public sealed class AlertEventLogger(ILogger<AlertEventLogger> logger)
             new(TelemetryNames.ValueTag, alert.Value),
             new(TelemetryNames.ThresholdTag, alert.Threshold),
         };
-        string message = $"alert {alert.AlertId} {alert.Transition}: {alert.Model} {alert.Check}{(alert.Subject is null ? string.Empty : "/" + alert.Subject)} {alert.Severity}: {alert.Explanation}";
+        if (alert.PreviousAlertId is { } previous)
+        {
+            state.Add(new("modelwatch.alert.previous_id", previous));
+        }
+
+        if (alert.EvidenceUrl is { } url)
+        {
+            state.Add(new("modelwatch.alert.evidence_url", url));
+        }
+
+        string again = alert.PreviousAlertId is { } before ? $" (again, after #{before})" : string.Empty;
+        string message = $"alert #{alert.AlertId} {alert.Transition}{again}: {alert.Model} {alert.Check}{(alert.Subject is null ? string.Empty : "/" + alert.Subject)} {alert.Severity}: {alert.Explanation}";
         logger.Log(level, new EventId(id, alert.EventName), state, null, (_, _) => message);
     }
 }

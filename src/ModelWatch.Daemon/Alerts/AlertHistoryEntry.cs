@@ -6,7 +6,7 @@ public sealed class AlertHistoryEntry
     /// <summary>The stored event's id (the <c>event_id</c> of its notifications).</summary>
     public long EventId { get; set; }
 
-    /// <summary>opened, reopened, escalated, acknowledged, resolved.</summary>
+    /// <summary>opened, escalated, acknowledged, resolved, superseded.</summary>
     public string Transition { get; set; } = string.Empty;
 
     /// <summary>Severity at the time.</summary>

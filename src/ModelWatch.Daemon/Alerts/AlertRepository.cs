@@ -111,7 +111,7 @@ public sealed class AlertRepository(NpgsqlDataSource dataSource, TimeSpan comman
         await using NpgsqlConnection connection = await dataSource.OpenConnectionAsync(cancellationToken);
         return await connection.QuerySingleAsync<long>(new CommandDefinition(
             """
-            INSERT INTO modelwatch.silence (model_key, check_name, until, reason, created_by, created_at)
+            INSERT INTO modelwatch.quiet_period (model_key, check_name, until, reason, created_by, created_at)
             VALUES (@model, @check, @until, @reason, @actor, @now) RETURNING id
             """,
             new { model, check, until, reason, actor, now },

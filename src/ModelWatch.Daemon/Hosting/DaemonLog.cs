@@ -64,8 +64,8 @@ internal static partial class DaemonLog
     [LoggerMessage(EventId = 1201, Level = LogLevel.Warning, Message = "Queued notifications could not be dispatched; they stay queued")]
     internal static partial void LogDispatchFailed(ILogger logger, Exception exception);
 
-    [LoggerMessage(EventId = 1202, Level = LogLevel.Information, Message = "Alert {AlertId} ({Model}/{Check}) is silenced; no notification sent")]
-    internal static partial void LogSilenced(ILogger logger, long alertId, string model, string check);
+    [LoggerMessage(EventId = 1202, Level = LogLevel.Information, Message = "Alert {AlertId} ({Model}/{Check}): notification held by quiet period {QuietPeriodId}")]
+    internal static partial void LogHeldByQuietPeriod(ILogger logger, long alertId, string model, string check, long quietPeriodId);
 
     [LoggerMessage(EventId = 1203, Level = LogLevel.Warning, Message = "Notification target {Target} named by model {Model} is not configured under Notifications:Targets")]
     internal static partial void LogUnknownTarget(ILogger logger, string target, string model);

@@ -13,7 +13,7 @@ namespace ModelWatch.Daemon.Notifications;
 /// Delivers the queued notifications (<c>modelwatch.notification</c>, filled by <see cref="NotificationQueue"/> in the
 /// transaction of each alert transition). Claims pending rows with a lease (<c>FOR UPDATE SKIP LOCKED</c>), so replicas
 /// share the work and a row whose replica died is sent by another after the lease; skips targets that are not
-/// configured or whose minimum severity is not met, and models (or checks) under an active silence; signs and retries
+/// configured or whose minimum severity is not met, and models (or checks) in an active quiet period (recorded as held); signs and retries
 /// through <see cref="WebhookSender"/>; records every attempt in <c>modelwatch.notification_attempt</c> and the
 /// row's outcome (<c>delivered</c>, <c>failed</c>, <c>skipped</c>) on the row. Delivery is at least once: a replica
 /// that dies between a target's 2xx and recording it leaves the row to be sent again, with the same <c>event_id</c>.
@@ -45,7 +45,8 @@ public sealed class NotificationDispatcher(
     private const string EventsSql = """
         SELECT e.id AS EventId, e.alert_id AS AlertId, e.transition AS Transition, a.model_key AS Model, a.check_name AS CheckName,
                a.subject AS Subject, e.severity AS Severity, e.state AS State, e.statistic AS Statistic, e.value AS Value,
-               e.threshold AS Threshold, e.explanation AS Explanation, e.at AS At
+               e.threshold AS Threshold, e.explanation AS Explanation, e.at AS At,
+               CASE WHEN e.transition = 'opened' THEN a.previous_alert_id END AS PreviousAlertId
           FROM modelwatch.alert_event e
           JOIN modelwatch.alert a ON a.id = e.alert_id
          WHERE e.id = ANY(@ids)
@@ -142,10 +143,10 @@ public sealed class NotificationDispatcher(
             return ("skipped", "below the target's minimum severity");
         }
 
-        if (await IsSilencedAsync(alert, cancellationToken))
+        if (await QuietPeriodAsync(alert, cancellationToken) is { } quiet)
         {
-            DaemonLog.LogSilenced(logger, alert.AlertId, alert.Model, alert.Check);
-            return ("skipped", "silenced");
+            DaemonLog.LogHeldByQuietPeriod(logger, alert.AlertId, alert.Model, alert.Check, quiet);
+            return ("held", $"held by quiet period {quiet.ToString(System.Globalization.CultureInfo.InvariantCulture)}");
         }
 
         IReadOnlyList<DeliveryAttempt> attempts = await sender.DeliverAsync(notification.Target, target, alert.AlertId, (attempt, at) => NotificationPayload.Create(alert, at, attempt), cancellationToken);
@@ -159,11 +160,14 @@ public sealed class NotificationDispatcher(
         return ("failed", attempts[^1].Error);
     }
 
-    private async Task<bool> IsSilencedAsync(AlertEvent alert, CancellationToken cancellationToken)
+    private async Task<long?> QuietPeriodAsync(AlertEvent alert, CancellationToken cancellationToken)
     {
         await using NpgsqlConnection connection = await state.OpenConnectionAsync(cancellationToken);
-        return await connection.ExecuteScalarAsync<bool>(Command(
-            "SELECT EXISTS (SELECT 1 FROM modelwatch.silence WHERE model_key = @model AND (check_name IS NULL OR check_name = @check) AND until > @now)",
+        return await connection.ExecuteScalarAsync<long?>(Command(
+            """
+            SELECT min(id) FROM modelwatch.quiet_period
+             WHERE model_key = @model AND (check_name IS NULL OR check_name = @check) AND until > @now AND ended_at IS NULL
+            """,
             new { model = alert.Model, check = alert.Check, now = time.GetUtcNow() },
             cancellationToken));
     }
@@ -254,11 +258,14 @@ public sealed class NotificationDispatcher(
 
         public DateTime At { get; set; }
 
+        public long? PreviousAlertId { get; set; }
+
         public AlertEvent ToEvent() => new(
             AlertId, Transition, Model, CheckName, Subject, Severity, State, Statistic ?? "none", Value, Threshold, Explanation,
             new DateTimeOffset(DateTime.SpecifyKind(At, DateTimeKind.Utc)))
         {
             EventId = EventId,
+            PreviousAlertId = PreviousAlertId,
         };
     }
 }

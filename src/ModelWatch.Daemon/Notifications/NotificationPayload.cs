@@ -8,7 +8,7 @@ namespace ModelWatch.Daemon.Notifications;
 /// <code>
 /// { "schema": 1, "event": "modelwatch.alert.opened", "event_id": 118, "attempt": 1, "sent_at": "...Z",
 ///   "alert": { "id", "model", "check", "subject", "severity", "state", "statistic", "value", "threshold",
-///              "explanation", "at" } }
+///              "explanation", "previous_alert", "evidence_url", "at" } }
 /// </code>
 /// </summary>
 public static class NotificationPayload
@@ -46,6 +46,16 @@ public static class NotificationPayload
             WriteNumber(writer, "value", alert.Value);
             WriteNumber(writer, "threshold", alert.Threshold);
             writer.WriteString("explanation", alert.Explanation);
+            if (alert.PreviousAlertId is { } previous)
+            {
+                writer.WriteNumber("previous_alert", previous);
+            }
+            else
+            {
+                writer.WriteNull("previous_alert");
+            }
+
+            writer.WriteString("evidence_url", alert.EvidenceUrl);
             writer.WriteString("at", alert.At.ToUniversalTime().ToString("yyyy-MM-dd'T'HH:mm:ss.fff'Z'", System.Globalization.CultureInfo.InvariantCulture));
             writer.WriteEndObject();
             writer.WriteEndObject();

@@ -11,7 +11,7 @@ namespace ModelWatch.Daemon.Persistence;
 /// Applies one alert-policy decision to the alert table inside the run's transaction. The lifecycle
 /// (docs/operations.md): one unresolved alert per (model, check, subject); <c>open</c> → <c>acknowledged</c> →
 /// <c>resolved</c>; fresh critical evidence on a warning alert escalates it; evidence after a resolution opens a new
-/// alert whose transition is <c>reopened</c> (the old one stays resolved, so the history is never rewritten).
+/// alert with its own number that names the one before (the old one stays resolved, so the history is never rewritten).
 /// </summary>
 internal static class AlertTransitions
 {
@@ -37,17 +37,20 @@ internal static class AlertTransitions
         {
             case AlertAction.Open or AlertAction.Raise when current is null:
             {
-                bool before = await connection.ExecuteScalarAsync<bool>(Command(
-                    "SELECT EXISTS (SELECT 1 FROM modelwatch.alert WHERE model_key = @model AND check_name = @check AND subject IS NOT DISTINCT FROM @subject)",
+                // A condition that returns after resolution is a new alert with its own number that names the one before:
+                // the resolved alert's history is never rewritten.
+                long? previous = await connection.ExecuteScalarAsync<long?>(Command(
+                    "SELECT max(id) FROM modelwatch.alert WHERE model_key = @model AND check_name = @check AND subject IS NOT DISTINCT FROM @subject",
                     new { model, check = decision.Check, subject = decision.Subject }));
                 long id = await connection.QuerySingleAsync<long>(Command(
                     """
-                    INSERT INTO modelwatch.alert (model_key, check_name, subject, severity, state, opened_at, opened_by, first_run_id, last_run_id)
-                    VALUES (@model, @check, @subject, @severity, 'open', @now, @actor, @runId, @runId)
+                    INSERT INTO modelwatch.alert (model_key, check_name, subject, severity, state, opened_at, opened_by, first_run_id, last_run_id, previous_alert_id, baseline_version)
+                    VALUES (@model, @check, @subject, @severity, 'open', @now, @actor, @runId, @runId, @previous,
+                            (SELECT baseline_version FROM modelwatch.run WHERE id = @runId))
                     RETURNING id
                     """,
-                    new { model, check = decision.Check, subject = decision.Subject, severity, now, actor, runId }));
-                return await RecordAsync(connection, Command, id, before ? "reopened" : "opened", severity, "open", model, decision, runId, actor, now);
+                    new { model, check = decision.Check, subject = decision.Subject, severity, now, actor, runId, previous }));
+                return await RecordAsync(connection, Command, id, "opened", severity, "open", model, decision, runId, actor, now, previous);
             }
 
             case AlertAction.Open or AlertAction.Raise:
@@ -74,7 +77,7 @@ internal static class AlertTransitions
 
     private static async Task<AlertEvent> RecordAsync(
         NpgsqlConnection connection, Func<string, object?, CommandDefinition> command, long alertId, string transition, string severity, string state,
-        string model, AlertDecision decision, long runId, string actor, DateTimeOffset now)
+        string model, AlertDecision decision, long runId, string actor, DateTimeOffset now, long? previousAlertId = null)
     {
         Finding? evidence = decision.Evidence;
         string explanation = evidence?.Explanation ?? decision.Reason;
@@ -100,6 +103,7 @@ internal static class AlertTransitions
         return new AlertEvent(alertId, transition, model, decision.Check, decision.Subject, severity, state, evidence?.Statistic ?? "none", FindingRow.Finite(evidence?.Value), FindingRow.Finite(evidence?.Threshold), explanation, now)
         {
             EventId = eventId,
+            PreviousAlertId = previousAlertId,
         };
     }
 
