@@ -1,28 +1,41 @@
 using System.CommandLine;
-using ModelWatch.Cli.Reports;
+using ModelWatch.Cli.Output;
+using ModelWatch.Daemon.Evidence;
 
 namespace ModelWatch.Cli.Commands;
 
 /// <summary>
-/// <c>modelwatch explain ID [--html FILE]</c>: the evidence behind an alert or a run (ids come from one sequence, so
-/// an id names one of them) in the terminal and, with <c>--html</c>, as a self-contained report with charts.
+/// <c>modelwatch explain ALERT_ID [--html FILE]</c> and <c>modelwatch explain --run RUN_ID [--html FILE]</c>: the evidence
+/// behind an alert or a run in the terminal and, with <c>--html</c>, as a self-contained report with charts (the page
+/// the daemon serves at <c>/alerts/{id}</c>). Alerts and runs are numbered separately, so a bare id is an alert id.
 /// </summary>
 internal static class ExplainCommand
 {
     public static Command Create()
     {
-        var id = new Argument<long>("id") { Description = "An alert id or a run id" };
+        var id = new Argument<long?>("alert-id") { Description = "The alert's id (as 'modelwatch alerts' lists it)", Arity = ArgumentArity.ZeroOrOne };
+        var run = new Option<long?>("--run") { Description = "Explain this run instead of an alert (run ids are numbered apart from alert ids)", HelpName = "RUN_ID" };
         var html = new Option<string?>("--html") { Description = "Also write a self-contained HTML report with charts to this file" };
         var database = StoreCommandRunner.DatabaseOption();
-        var command = new Command("explain", "Show the evidence behind an alert or a run: what moved, the error decomposition, the features involved, the runbook") { id, html, database };
+        var command = new Command("explain", "Show the evidence behind an alert (or, with --run, a run): what moved, the error decomposition, the features involved, the runbook") { id, run, html, database };
+        command.Validators.Add(result =>
+        {
+            bool hasAlert = result.GetValue(id) is not null, hasRun = result.GetValue(run) is not null;
+            if (hasAlert == hasRun)
+            {
+                result.AddError(hasAlert ? "give an alert id or --run RUN_ID, not both" : "give an alert id, or --run RUN_ID for a run");
+            }
+        });
         command.SetAction((parse, cancellationToken) => StoreCommandRunner.RunAsync(parse, "explain", database, async (databases, output, ct) =>
         {
-            long value = parse.GetValue(id);
             string? file = parse.GetValue(html);
-            Evidence? evidence = await new EvidenceLoader(databases, StoreCommandRunner.CommandTimeout).LoadAsync(value, readWindow: file is not null, ct);
+            var loader = new EvidenceLoader(databases, StoreCommandRunner.CommandTimeout);
+            (Evidence? evidence, string missing) = parse.GetValue(run) is { } runId
+                ? (await loader.LoadRunAsync(runId, readWindow: file is not null, ct), $"no run has id {runId}")
+                : (await loader.LoadAlertAsync(parse.GetValue(id)!.Value, readWindow: file is not null, ct), $"no alert has id {parse.GetValue(id)} (for a run, use --run RUN_ID)");
             if (evidence is null)
             {
-                parse.InvocationConfiguration.Error.WriteLine($"modelwatch explain: no alert or run has id {value}");
+                parse.InvocationConfiguration.Error.WriteLine("modelwatch explain: " + missing);
                 return ExitCodes.RuntimeError;
             }
 
@@ -30,7 +43,7 @@ internal static class ExplainCommand
             if (file is not null)
             {
                 output.WriteLine();
-                output.WriteLine("report: " + await EvidenceReport.WriteAsync(evidence, file, ct));
+                output.WriteLine("report: " + await EvidenceReport.WriteAsync(evidence, file, TimeProvider.System, ct));
             }
 
             return ExitCodes.Ok;

@@ -4,8 +4,8 @@ using Microsoft.Extensions.DependencyInjection;
 using Microsoft.Extensions.DependencyInjection.Extensions;
 using Microsoft.Extensions.Hosting;
 using Microsoft.Extensions.Logging;
-using ModelWatch.Cli.Reports;
 using ModelWatch.Daemon.Alerts;
+using ModelWatch.Daemon.Evidence;
 using ModelWatch.Daemon.Hosting;
 using ModelWatch.Store.Baselines;
 using ModelWatch.Store.Configuration;
@@ -77,7 +77,7 @@ internal sealed class DemoRunner(TextWriter output, TextWriter error)
         {
             // Under the temporary folder, not the working one: the README runs the demo from a git checkout.
             string folder = Directory.CreateDirectory(Path.Combine(Path.GetTempPath(), "modelwatch-demo")).FullName;
-            string path = await EvidenceReport.WriteAsync(databases, main.Id, Path.Combine(folder, $"{DemoScenario.ModelKey}-alert-{main.Id}.html"), cancellationToken);
+            string path = await EvidenceReport.WriteAlertAsync(databases, main.Id, Path.Combine(folder, $"{DemoScenario.ModelKey}-alert-{main.Id}.html"), cancellationToken);
             output.WriteLine($"Evidence report for alert #{main.Id} ({main.Check}{(main.Subject is null ? string.Empty : "/" + main.Subject)}): {path}");
             output.WriteLine($"  In the terminal: modelwatch explain {main.Id.ToString(CultureInfo.InvariantCulture)}{KeepHint(keep, database)}");
         }

@@ -29,6 +29,7 @@ public sealed class RunCompletion(
     AlertEventLogger events,
     NotificationWakeup notifications,
     IOptions<DaemonOptions> options,
+    IOptions<WebOptions> web,
     TimeProvider time,
     ILogger<RunCompletion> logger)
 {
@@ -68,7 +69,7 @@ public sealed class RunCompletion(
         foreach (AlertEvent transition in recorded.Transitions)
         {
             metrics.RecordAlertTransition(transition.Model, transition.Check, transition.Severity, transition.State);
-            events.Publish(transition);
+            events.Publish(transition with { EvidenceUrl = web.Value.EvidenceUrl(transition.AlertId) });
         }
 
         if (recorded.Transitions.Count > 0)

@@ -9,6 +9,7 @@ using Microsoft.Extensions.Logging;
 using ModelWatch.Daemon.Alerts;
 using ModelWatch.Daemon.Options;
 using ModelWatch.Daemon.Telemetry;
+using ModelWatch.Daemon.Web;
 using ModelWatch.Store.Configuration;
 using Serilog;
 using ILogger = Microsoft.Extensions.Logging.ILogger;
@@ -64,6 +65,11 @@ public static class DaemonHost
             AddServices(builder, databaseOption, configure);
             WebApplication app = builder.Build();
             HttpEndpoint.Map(app, telemetry.PrometheusEnabled);
+            if (settings.GetSection(WebOptions.Section).Get<WebOptions>() is { Enabled: true } web)
+            {
+                WebPages.Map(app, web);
+            }
+
             host = app;
         }
         else

@@ -84,4 +84,7 @@ internal static partial class DaemonLog
 
     [LoggerMessage(EventId = 1002, Level = LogLevel.Information, Message = "State database at schema version {Version} ({Applied} migration(s) applied)")]
     internal static partial void LogMigrated(ILogger logger, int version, int applied);
+
+    [LoggerMessage(EventId = 1601, Level = LogLevel.Warning, Message = "Web page {Path} could not be read from the state database")]
+    internal static partial void LogWebPageFailed(ILogger logger, string path, Exception exception);
 }

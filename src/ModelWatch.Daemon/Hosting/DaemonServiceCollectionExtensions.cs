@@ -41,6 +41,7 @@ public static class DaemonServiceCollectionExtensions
         ArgumentNullException.ThrowIfNull(configuration);
         services.AddOptions<DaemonOptions>().Bind(configuration.GetSection(DaemonOptions.Section)).ValidateDataAnnotations().ValidateOnStart();
         services.AddOptions<HttpOptions>().Bind(configuration.GetSection(HttpOptions.Section)).ValidateDataAnnotations().ValidateOnStart();
+        services.AddOptions<WebOptions>().Bind(configuration.GetSection(WebOptions.Section));
         services.AddOptions<RetentionOptions>().Bind(configuration.GetSection(RetentionOptions.Section)).ValidateDataAnnotations().ValidateOnStart();
         services.AddOptions<TelemetryOptions>().Bind(configuration.GetSection(TelemetryOptions.Section)).ValidateDataAnnotations().ValidateOnStart();
         services.AddOptions<SpecsOptions>().Bind(configuration.GetSection(SpecsOptions.Section));

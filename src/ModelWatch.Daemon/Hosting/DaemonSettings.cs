@@ -17,6 +17,7 @@ public static class DaemonSettings
     {
         [DaemonOptions.Section] = typeof(DaemonOptions),
         [HttpOptions.Section] = typeof(HttpOptions),
+        [WebOptions.Section] = typeof(WebOptions),
         [RetentionOptions.Section] = typeof(RetentionOptions),
         [TelemetryOptions.Section] = typeof(TelemetryOptions),
         [SpecsOptions.Section] = typeof(SpecsOptions),
@@ -87,6 +88,11 @@ public static class DaemonSettings
             {
                 problems.Add("Telemetry:PrometheusEnabled needs Http:Enabled: the scrape endpoint is /metrics on Http:Urls");
             }
+        }
+
+        if (bound.GetValueOrDefault(WebOptions.Section) is WebOptions web)
+        {
+            problems.AddRange(web.Problems((bound.GetValueOrDefault(HttpOptions.Section) as HttpOptions)?.Enabled == true));
         }
 
         problems.AddRange(LogLevels.Problems(configuration));

@@ -24,6 +24,7 @@ public sealed class NotificationDispatcher(
     NpgsqlDataSource state,
     IOptionsMonitor<NotificationOptions> options,
     IOptions<DaemonOptions> daemon,
+    IOptions<WebOptions> web,
     TimeProvider time,
     ILogger<NotificationDispatcher> logger) : BackgroundService
 {
@@ -102,7 +103,7 @@ public sealed class NotificationDispatcher(
             }
 
             var rows = await connection.QueryAsync<EventRow>(Command(EventsSql, new { ids = claimed.Select(c => c.EventId).Distinct().ToArray() }, cancellationToken));
-            events = rows.ToDictionary(r => r.EventId, r => r.ToEvent());
+            events = rows.ToDictionary(r => r.EventId, r => r.ToEvent() with { EvidenceUrl = web.Value.EvidenceUrl(r.AlertId) });
         }
 
         foreach (ClaimedNotification notification in claimed)

@@ -28,6 +28,7 @@ public sealed class ModelSpec
         Notify = [.. normalised.Notify!];
         LabelDelay = labelDelay;
         PredictionColumn = normalised.PredictionColumn;
+        OutcomeUnit = normalised.OutcomeUnit;
         Enabled = normalised.Enabled!.Value;
         ParallelReads = normalised.ParallelReads!.Value;
         DesignSignature = SignatureOf(Layout);
@@ -53,6 +54,9 @@ public sealed class ModelSpec
 
     /// <summary>Outcome column.</summary>
     public string Outcome => Layout.Outcome;
+
+    /// <summary>The outcome's unit as people read it (axis titles), or null when the spec names none.</summary>
+    public string? OutcomeUnit { get; }
 
     /// <summary>Feature columns, in design order.</summary>
     public IReadOnlyList<string> Features => Layout.Features;

@@ -34,6 +34,11 @@ internal sealed class ModelSpecDocument
     [JsonPropertyName("outcome")]
     public string? Outcome { get; set; }
 
+    /// <summary>The outcome's unit for people (axis titles), from <c>outcome: {column: ..., unit: ...}</c>; stored only when set, so older specs keep their hash.</summary>
+    [JsonPropertyName("outcome_unit")]
+    [JsonIgnore(Condition = JsonIgnoreCondition.WhenWritingNull)]
+    public string? OutcomeUnit { get; set; }
+
     [JsonPropertyName("features")]
     public List<string>? Features { get; set; }
 

@@ -134,6 +134,11 @@ public static partial class ModelSpecValidator
             Fail("outcome", $"'{doc.Outcome}' is the time_column; a column cannot be both");
         }
 
+        if (doc.OutcomeUnit is { } unit && (unit.Trim().Length == 0 || unit.Length > 32 || unit.Any(char.IsControl)))
+        {
+            Fail("outcome.unit", "must be 1 to 32 printable characters, e.g. 'minutes' or 'EUR'");
+        }
+
         if (doc.PredictionColumn is not null && (doc.PredictionColumn == doc.Outcome || doc.Features?.Contains(doc.PredictionColumn) == true))
         {
             Fail("prediction_column", $"'{doc.PredictionColumn}' is already the outcome or a feature");

@@ -41,7 +41,7 @@ internal static class ModelSpecYamlReader
                 case "source": doc.Source = context.String(value); break;
                 case "query": doc.Query = context.String(value); break;
                 case "time_column": doc.TimeColumn = context.String(value); break;
-                case "outcome": doc.Outcome = context.String(value); break;
+                case "outcome": (doc.Outcome, doc.OutcomeUnit) = context.Outcome(value); break;
                 case "features": doc.Features = context.StringList(value); break;
                 case "intercept": doc.Intercept = context.Boolean(value); break;
                 case "schedule": doc.Schedule = context.String(value); break;
@@ -82,6 +82,35 @@ internal static class ModelSpecYamlReader
 
             Fail("must be a single value (a string), not a list or mapping");
             return null;
+        }
+
+        /// <summary>The outcome: a column name, or a mapping <c>{column: NAME, unit: TEXT}</c> that also names its unit.</summary>
+        public (string? Column, string? Unit) Outcome(YamlNode node)
+        {
+            if (node is not YamlMappingNode mapping)
+            {
+                return (String(node), null);
+            }
+
+            string? column = null, unit = null;
+            foreach ((YamlNode keyNode, YamlNode value) in mapping.Children)
+            {
+                string name = (keyNode as YamlScalarNode)?.Value ?? string.Empty;
+                var part = this with { Path = Path + "." + name };
+                switch (name)
+                {
+                    case "column": column = part.String(value); break;
+                    case "unit": unit = part.String(value); break;
+                    default: part.Fail("unknown field; an outcome mapping has column and unit"); break;
+                }
+            }
+
+            if (column is null)
+            {
+                Fail("a mapping must name the outcome's column (column: NAME)");
+            }
+
+            return (column, unit);
         }
 
         public bool? Boolean(YamlNode node)

@@ -2,7 +2,7 @@ using System.Net;
 using System.Runtime.CompilerServices;
 using System.Text.Json;
 using System.Text.RegularExpressions;
-using ModelWatch.Cli.Reports;
+using ModelWatch.Daemon.Evidence;
 using ModelWatch.Testing.Postgres;
 using Xunit.Abstractions;
 
@@ -66,8 +66,8 @@ public sealed partial class ExplainCommandTests(PostgresDatabase database, ITest
         long first = await FerryScenario.ScalarAsync(database, $"SELECT min(id) FROM modelwatch.run WHERE model_key = '{FerryScenario.Key}'");
         long last = await FerryScenario.ScalarAsync(database, $"SELECT last_run_id FROM modelwatch.alert WHERE model_key = '{FerryScenario.Key}' AND check_name = 'coefficients' AND subject IS NULL");
 
-        CliRun before = await FerryScenario.Cli(database, "explain", first.ToString(System.Globalization.CultureInfo.InvariantCulture));
-        CliRun after = await FerryScenario.Cli(database, "explain", last.ToString(System.Globalization.CultureInfo.InvariantCulture));
+        CliRun before = await FerryScenario.Cli(database, "explain", "--run", first.ToString(System.Globalization.CultureInfo.InvariantCulture));
+        CliRun after = await FerryScenario.Cli(database, "explain", "--run", last.ToString(System.Globalization.CultureInfo.InvariantCulture));
         log.WriteLine(before.Output);
 
         Assert.True(before.ExitCode == 0, before.Error);
@@ -81,16 +81,26 @@ public sealed partial class ExplainCommandTests(PostgresDatabase database, ITest
     }
 
     [Fact]
-    public async Task Explain_an_id_that_names_nothing_exits_3()
+    public async Task Explain_an_id_that_names_nothing_exits_3_and_a_missing_or_double_id_is_usage()
     {
         await ScenarioAsync();
-        long unused = await FerryScenario.ScalarAsync(database, "SELECT last_value + 1000 FROM modelwatch.object_id");
+        long unusedAlert = await FerryScenario.ScalarAsync(database, "SELECT last_value + 1000 FROM modelwatch.alert_id");
+        long unusedRun = await FerryScenario.ScalarAsync(database, "SELECT last_value + 1000 FROM modelwatch.object_id");
 
-        CliRun run = await FerryScenario.Cli(database, "explain", unused.ToString(System.Globalization.CultureInfo.InvariantCulture));
+        CliRun alert = await FerryScenario.Cli(database, "explain", unusedAlert.ToString(System.Globalization.CultureInfo.InvariantCulture));
+        CliRun run = await FerryScenario.Cli(database, "explain", "--run", unusedRun.ToString(System.Globalization.CultureInfo.InvariantCulture));
+        CliRun neither = await FerryScenario.Cli(database, "explain");
+        CliRun both = await FerryScenario.Cli(database, "explain", "1", "--run", "1");
 
+        Assert.Equal(ExitCodes.RuntimeError, alert.ExitCode);
+        Assert.Contains($"no alert has id {unusedAlert} (for a run, use --run RUN_ID)", alert.Error, StringComparison.Ordinal);
+        Assert.Equal(string.Empty, alert.Output);
         Assert.Equal(ExitCodes.RuntimeError, run.ExitCode);
-        Assert.Contains($"no alert or run has id {unused}", run.Error, StringComparison.Ordinal);
-        Assert.Equal(string.Empty, run.Output);
+        Assert.Contains($"no run has id {unusedRun}", run.Error, StringComparison.Ordinal);
+        Assert.Equal(ExitCodes.Usage, neither.ExitCode);
+        Assert.Contains("give an alert id, or --run RUN_ID for a run", neither.Error, StringComparison.Ordinal);
+        Assert.Equal(ExitCodes.Usage, both.ExitCode);
+        Assert.Contains("not both", both.Error, StringComparison.Ordinal);
     }
 
     [Fact]

@@ -1,5 +1,5 @@
 using ModelWatch.Checks.Evaluation;
-using ModelWatch.Cli.Reports;
+using ModelWatch.Daemon.Evidence;
 
 namespace ModelWatch.Cli.Tests.Explain;
 

@@ -1,6 +1,6 @@
 using ModelWatch.Checks.Evaluation;
 
-namespace ModelWatch.Cli.Reports;
+namespace ModelWatch.Daemon.Evidence;
 
 /// <summary>
 /// The runbook entries, each owned by its check (<see cref="IModelCheck.Runbook"/>), in the order a run evaluates the

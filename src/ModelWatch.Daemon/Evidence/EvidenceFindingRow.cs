@@ -1,4 +1,4 @@
-namespace ModelWatch.Cli.Reports;
+namespace ModelWatch.Daemon.Evidence;
 
 /// <summary>A finding row as Dapper reads it, before its details are parsed.</summary>
 internal sealed class EvidenceFindingRow

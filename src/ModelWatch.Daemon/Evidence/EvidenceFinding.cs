@@ -1,4 +1,4 @@
-namespace ModelWatch.Cli.Reports;
+namespace ModelWatch.Daemon.Evidence;
 
 /// <summary>A stored finding with its numeric details parsed.</summary>
 internal sealed record EvidenceFinding(

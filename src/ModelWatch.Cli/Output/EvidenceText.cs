@@ -1,8 +1,8 @@
 using System.Globalization;
 using ModelWatch.Checks.Findings;
-using ModelWatch.Cli.Output;
+using ModelWatch.Daemon.Evidence;
 
-namespace ModelWatch.Cli.Reports;
+namespace ModelWatch.Cli.Output;
 
 /// <summary>The terminal form of the evidence: what moved, the error decomposition, the features involved, the runbook.</summary>
 internal static class EvidenceText
@@ -13,6 +13,11 @@ internal static class EvidenceText
         {
             output.WriteLine($"alert {alert.Id}: model {alert.Model}, check {alert.Check}, subject {alert.Subject ?? "model"}, {alert.Severity}, {alert.State}");
             output.WriteLine($"  opened {CliJson.Time(alert.OpenedAt)}" + (alert.ResolvedAt is { } r ? $", resolved {CliJson.Time(r)}" : string.Empty));
+            if (evidence.PreviousAlertId is { } previous)
+            {
+                output.WriteLine($"  again, after #{previous.ToString(CultureInfo.InvariantCulture)}");
+            }
+
             if (alert.Explanation is { } latest)
             {
                 output.WriteLine($"  latest evidence: {TerminalText.Clean(latest)}");
@@ -37,32 +42,12 @@ internal static class EvidenceText
         output.WriteLine();
         WriteDecomposition(output, evidence);
         output.WriteLine();
-        IReadOnlyList<string> features = FeaturesInvolved(focus);
+        IReadOnlyList<string> features = EvidenceFacts.FeaturesInvolved(focus);
         output.WriteLine("Features involved: " + (features.Count == 0 ? "none named by this run's findings" : string.Join(", ", features)));
         output.WriteLine();
         WriteRunbook(output, ChecksOfInterest(evidence, focus));
         output.WriteLine();
         output.WriteLine(RunbookHints.Caution);
-    }
-
-    /// <summary>Features (and terms) that a non-ok finding of the run names, strongest first.</summary>
-    public static IReadOnlyList<string> FeaturesInvolved(EvidenceRun run)
-    {
-        var named = new List<(string Name, int Rank)>();
-        foreach (EvidenceFinding f in run.Findings.Where(f => f.Severity != "ok" && f.Skipped is null))
-        {
-            int rank = f.Severity == "critical" ? 0 : 1;
-            if (f.Subject is { } subject)
-            {
-                named.Add((subject, rank));
-            }
-
-            // The condition-number finding names a near-dependency through its variance-decomposition proportions.
-            named.AddRange(f.Details.Where(d => d.Key.StartsWith("proportion.", StringComparison.Ordinal) && d.Value >= 0.5)
-                .Select(d => (d.Key["proportion.".Length..], rank)));
-        }
-
-        return [.. named.Where(n => n.Name != "(intercept)").GroupBy(n => n.Name).OrderBy(g => g.Min(n => n.Rank)).ThenBy(g => g.Key, StringComparer.Ordinal).Select(g => g.Key)];
     }
 
     private static void WriteMoved(TextWriter output, Evidence evidence, EvidenceRun focus)
@@ -97,6 +82,7 @@ internal static class EvidenceText
         if (error.Detail("share_noise") is { } noise && error.Detail("share_level_drift") is { } level && error.Detail("share_slope_drift") is { } slope)
         {
             output.WriteLine($"  of the error increase over baseline: noise {Pct(noise)}, level drift {Pct(level)}, slope drift {Pct(slope)}");
+            output.WriteLine("  " + EvidenceFacts.SharesExplained);
         }
         else
         {
@@ -138,9 +124,9 @@ internal static class EvidenceText
     private static string Window(EvidenceRun run) =>
         run.WindowStart is { } s && run.WindowEnd is { } e ? $"{CliJson.Time(s)} → {CliJson.Time(e)}" : "none";
 
-    public static string Num(double value) => value.ToString("G4", CultureInfo.InvariantCulture);
+    private static string Num(double value) => EvidenceFacts.Num(value);
 
-    public static string Pct(double share) => (Math.Round(share * 100) + 0.0).ToString("F0", CultureInfo.InvariantCulture) + " %";
+    private static string Pct(double share) => EvidenceFacts.Pct(share);
 
     private static string Signed(double? growth) => growth is { } g ? (g >= 0 ? "+" : string.Empty) + Pct(g) : "change unknown";
 }

@@ -1,4 +1,4 @@
-namespace ModelWatch.Cli.Reports;
+namespace ModelWatch.Daemon.Evidence;
 
 /// <summary>A recorded run of the model with its findings.</summary>
 internal sealed record EvidenceRun(

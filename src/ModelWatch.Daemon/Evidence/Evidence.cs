@@ -1,12 +1,12 @@
 using ModelWatch.Daemon.Alerts;
 using ModelWatch.Store.Baselines;
 
-namespace ModelWatch.Cli.Reports;
+namespace ModelWatch.Daemon.Evidence;
 
 /// <summary>Everything <c>explain</c> shows about one alert or run: the model's recent history around it.</summary>
 internal sealed record Evidence
 {
-    /// <summary>The id asked about.</summary>
+    /// <summary>The id asked about: an alert id when <see cref="Alert"/> is set, otherwise a run id.</summary>
     public required long Id { get; init; }
 
     /// <summary>The model.</summary>
@@ -14,6 +14,12 @@ internal sealed record Evidence
 
     /// <summary>The alert, when the id names one.</summary>
     public AlertView? Alert { get; init; }
+
+    /// <summary>The resolved alert of the same condition that this one follows, when it came back.</summary>
+    public long? PreviousAlertId { get; init; }
+
+    /// <summary>The outcome column and its unit from the model's spec (unit null when the spec names none).</summary>
+    public (string Column, string? Unit)? Outcome { get; init; }
 
     /// <summary>The alert's transitions, oldest first (empty for a run).</summary>
     public IReadOnlyList<AlertHistoryEntry> History { get; init; } = [];
