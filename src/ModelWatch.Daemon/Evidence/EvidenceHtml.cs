@@ -82,12 +82,32 @@ internal static class EvidenceHtml
         List<EvidenceFinding> shown = critical.Count > 0 ? critical : [.. run.Findings.Where(f => f.Severity == "warning")];
         html.Append("<h2>What moved</h2>");
         html.Append(shown.Count == 0 ? "<p>Nothing above ok in this run.</p>" : critical.Count == 0 ? "<p>Nothing critical in this run; its warnings:</p>" : string.Empty);
-        foreach (EvidenceFinding f in shown)
+        // The alert's own check first; the rest of a busy run folds away so the page starts with what was asked about.
+        string? own = evidence.Alert?.Check;
+        List<EvidenceFinding> first = own is null ? shown : [.. shown.Where(f => f.Check == own)];
+        List<EvidenceFinding> rest = own is null ? [] : [.. shown.Where(f => f.Check != own)];
+        foreach (EvidenceFinding f in first)
         {
-            html.Append("<p class=\"finding\"><span class=\"sev ").Append(f.Severity).Append("\">").Append(f.Severity).Append("</span> ")
-                .Append(Enc($"{f.Check} {f.Statistic} ({f.SubjectText}): {f.Explanation}")).Append("</p>");
+            Finding(html, f);
+        }
+
+        if (rest.Count > 0)
+        {
+            html.Append("<details class=\"more\"").Append(first.Count == 0 ? " open" : string.Empty).Append("><summary>")
+                .Append(Enc($"{rest.Count.ToString(CultureInfo.InvariantCulture)} more {(critical.Count > 0 ? "critical" : "warning")} finding(s) of other checks in this run ({string.Join(", ", rest.Select(f => f.Check).Distinct())})"))
+                .Append("</summary>");
+            foreach (EvidenceFinding f in rest)
+            {
+                Finding(html, f);
+            }
+
+            html.Append("</details>");
         }
     }
+
+    private static void Finding(StringBuilder html, EvidenceFinding f) =>
+        html.Append("<p class=\"finding\"><span class=\"sev ").Append(f.Severity).Append("\">").Append(f.Severity).Append("</span> ")
+            .Append(Enc($"{f.Check} {f.Statistic} ({f.SubjectText}): {f.Explanation}")).Append("</p>");
 
     private static void Decomposition(StringBuilder html, Evidence evidence)
     {
@@ -107,7 +127,8 @@ internal static class EvidenceHtml
         if (error.Detail("share_noise") is { } noise && error.Detail("share_level_drift") is { } level && error.Detail("share_slope_drift") is { } slope)
         {
             html.Append("<table class=\"rows\"><thead><tr><th>part of the increase</th><th>share</th><th>what it means</th></tr></thead><tbody>");
-            Share(html, "noise", noise, noise < 0 ? "negative: this window is less noisy than the baseline, so noise took error away" : "the window's own unavoidable error grew");
+            Share(html, "noise", noise, Math.Round(noise * 100) < 0 ? "negative: this window is less noisy than the baseline, so noise took error away"
+                : Math.Round(noise * 100) == 0 ? "the window is about as noisy as the baseline" : "the window's own unavoidable error grew");
             Share(html, "level drift", level, "the predictions are off by a constant amount");
             Share(html, "slope drift", slope, "the features' coefficients moved");
             html.Append("</tbody></table>");
@@ -153,11 +174,11 @@ internal static class EvidenceHtml
             return;
         }
 
-        html.Append("<h2>The alert's history</h2><table class=\"rows\"><thead><tr><th>when (UTC)</th><th>what</th><th>severity</th><th>by</th><th>run</th><th>explanation</th></tr></thead><tbody>");
+        html.Append("<h2>The alert's history</h2><table class=\"rows\"><thead><tr><th>when</th><th>what</th><th>severity</th><th>by</th><th>run</th><th>explanation</th></tr></thead><tbody>");
         foreach (AlertHistoryEntry entry in history)
         {
             html.Append("<tr>")
-                .Append(Cell("when", Time(entry.At))).Append(Cell("what", entry.Transition)).Append(Cell("severity", entry.Severity))
+                .Append("<td data-label=\"when\" class=\"when\">").Append(Enc(Readable(entry.At))).Append("</td>").Append(Cell("what", entry.Transition)).Append(Cell("severity", entry.Severity))
                 .Append(Cell("by", entry.Actor)).Append(Cell("run", entry.RunId is { } r ? "#" + Id(r) : "-")).Append(Cell("explanation", entry.Explanation))
                 .Append("</tr>");
         }
@@ -192,6 +213,8 @@ internal static class EvidenceHtml
     private static string Time(DateTime? utc) => EvidenceFacts.Time(utc) ?? "-";
 
     private static string Time(DateTimeOffset? value) => EvidenceFacts.Time(value) ?? "-";
+
+    private static string Readable(DateTime utc) => EvidenceFacts.Readable(new DateTimeOffset(DateTime.SpecifyKind(utc, DateTimeKind.Utc)));
 
     private static string Id(long id) => id.ToString(CultureInfo.InvariantCulture);
 

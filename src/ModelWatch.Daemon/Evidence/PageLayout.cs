@@ -18,7 +18,7 @@ internal static class PageLayout
         a { color: #174d78; }
         h1 { font-size: 1.35rem; margin: 0.2rem 0 0.5rem; overflow-wrap: anywhere; }
         h2 { font-size: 1.1rem; margin: 1.6rem 0 0.5rem; border-bottom: 2px solid #d8d2c4; padding-bottom: 0.2rem; }
-        p, li, dd { overflow-wrap: anywhere; }
+        p, li, dd { overflow-wrap: break-word; }
         .caution { background: #fff6df; border-left: 5px solid #c0621b; padding: 0.6rem 0.8rem; margin: 0.8rem 0; }
         .explain { background: #eef3f7; border-left: 5px solid #1d5c8f; padding: 0.6rem 0.8rem; margin: 0.6rem 0; }
         .facts { margin: 0; padding-left: 1.1rem; }
@@ -30,9 +30,9 @@ internal static class PageLayout
         .charts > figure:last-child:nth-child(odd) svg { max-height: 440px; }
         figure.chart { margin: 0; background: #fff; border: 1px solid #ddd6c8; border-radius: 6px; padding: 6px 8px; min-width: 0; }
         figure.chart svg { width: 100%; height: auto; display: block; }
-        svg .title { font-size: 16px; font-weight: 600; fill: #1f2328; }
+        svg .title { font-size: 17px; font-weight: 600; fill: #1f2328; }
         svg .tick { font-size: 13px; fill: #4a4f55; }
-        svg .axis-title { font-size: 13px; fill: #1f2328; }
+        svg .axis-title { font-size: 14px; fill: #1f2328; }
         svg .axis { stroke: #8c8577; }
         svg .plot { fill: #fbfaf7; stroke: #cfc8b8; }
         svg .grid { stroke: #e6e0d4; stroke-width: 1; }
@@ -47,12 +47,16 @@ internal static class PageLayout
         figcaption { font-size: 0.85rem; color: #4a4f55; margin-top: 4px; }
         .runbook dt { font-weight: 600; margin-top: 0.5rem; } .runbook dd { margin-left: 1rem; }
         table.rows { border-collapse: collapse; width: 100%; background: #fff; font-size: 0.9rem; }
-        table.rows th, table.rows td { text-align: left; padding: 5px 8px; border-bottom: 1px solid #e6e0d4; vertical-align: top; overflow-wrap: anywhere; }
+        table.rows th, table.rows td { text-align: left; padding: 5px 8px; border-bottom: 1px solid #e6e0d4; vertical-align: top; overflow-wrap: break-word; }
+        table.rows td.when, table.rows th { white-space: nowrap; }
+        details.more { margin: 0.4rem 0; } details.more summary { cursor: pointer; color: #174d78; }
         table.rows th { background: #ece7dc; font-weight: 600; }
         table.rows td.num { text-align: right; font-variant-numeric: tabular-nums; }
         .muted { color: #6a6f75; }
         @media (max-width: 700px) {
           main { padding: 8px 10px 32px; }
+          svg .title { font-size: 21px; } svg .tick { font-size: 17px; } svg .axis-title { font-size: 18px; }
+          table.rows th { white-space: normal; }
           table.rows thead { display: none; }
           table.rows, table.rows tbody, table.rows tr, table.rows td { display: block; width: 100%; }
           table.rows tr { border: 1px solid #ddd6c8; border-radius: 6px; margin-bottom: 8px; background: #fff; }

@@ -13,9 +13,9 @@ internal sealed class SvgChart(string title, string xTitle, string yTitle, doubl
 {
     private const double Width = 560;
     private const double Height = 320;
-    private const double Left = 74;
+    private const double Left = 62;
     private const double Right = 16;
-    private const double Top = 34;
+    private const double Top = 50;
     private const double Bottom = 62;
 
     private static readonly double[] NiceSteps = [1.0, 2.0, 2.5, 5.0, 10.0];
@@ -32,6 +32,7 @@ internal sealed class SvgChart(string title, string xTitle, string yTitle, doubl
     private readonly StringBuilder _background = new();
     private readonly StringBuilder _shapes = new();
     private readonly List<(string Color, string Label, string Swatch)> _legend = [];
+    private readonly List<(string Color, string Label, string Swatch)> _context = [];
     private readonly List<(double X, string Line1, string? Line2)> _xLabels = [];
 
     /// <summary>Shades the area between a lower and an upper curve.</summary>
@@ -104,7 +105,7 @@ internal sealed class SvgChart(string title, string xTitle, string yTitle, doubl
         }
 
         _background.Append(Fmt($"<rect class=\"period\" x=\"{N(a)}\" y=\"{N(Top)}\" width=\"{N(b - a)}\" height=\"{N(Height - Top - Bottom)}\" fill=\"{fill}\" fill-opacity=\"0.55\"/>"));
-        _legend.Add((fill, label, "period"));
+        _context.Add((fill, label, "period"));
     }
 
     /// <summary>A vertical line at one x (the run the evidence comes from), labelled in the legend.</summary>
@@ -116,7 +117,7 @@ internal sealed class SvgChart(string title, string xTitle, string yTitle, doubl
         }
 
         _shapes.Append(Fmt($"<line class=\"marker\" x1=\"{N(X(x))}\" x2=\"{N(X(x))}\" y1=\"{N(Top)}\" y2=\"{N(Height - Bottom)}\" stroke=\"{color}\" stroke-width=\"1.6\" stroke-dasharray=\"2 3\"/>"));
-        _legend.Add((color, label, "marker"));
+        _context.Add((color, label, "marker"));
     }
 
     /// <summary>A filled rectangle between two x and two y values; its legend entry is added once with <see cref="Legend"/>.</summary>
@@ -187,12 +188,13 @@ internal sealed class SvgChart(string title, string xTitle, string yTitle, doubl
         }
 
         svg.Append(Fmt($"<text x=\"{N(Left + ((Width - Left - Right) / 2))}\" y=\"{N(Height - 6)}\" class=\"axis-title\" text-anchor=\"middle\">{Enc(xTitle)}</text>"));
-        double middle = Top + ((Height - Top - Bottom) / 2);
-        svg.Append(Fmt($"<text x=\"16\" y=\"{N(middle)}\" class=\"axis-title\" text-anchor=\"middle\" transform=\"rotate(-90 16 {N(middle)})\">{Enc(yTitle)}</text>"));
+
+        // The y axis title sits above the plot, read left to right: rotated, a long title with its unit would not fit.
+        svg.Append(Fmt($"<text x=\"8\" y=\"{N(Top - 10)}\" class=\"axis-title\">↑ {Enc(yTitle)}</text>"));
         svg.Append(_shapes);
         svg.Append("</svg>");
         svg.Append("<ul class=\"legend\">");
-        foreach ((string color, string label, string swatch) in _legend.DistinctBy(l => l.Label))
+        foreach ((string color, string label, string swatch) in _legend.Concat(_context).DistinctBy(l => l.Label))
         {
             svg.Append(Fmt($"<li><span class=\"key {swatch}\" style=\"--key:{color}\"></span>{Enc(label)}</li>"));
         }

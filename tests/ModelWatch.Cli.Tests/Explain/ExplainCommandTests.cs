@@ -127,7 +127,7 @@ public sealed partial class ExplainCommandTests(PostgresDatabase database, ITest
         Assert.True(result.Success, "the measuring script wrote nothing: " + dom[..Math.Min(dom.Length, 500)]);
         using JsonDocument charts = JsonDocument.Parse(WebUtility.HtmlDecode(result.Groups[1].Value));
         var byKind = charts.RootElement.EnumerateArray().GroupBy(c => c.GetProperty("chart").GetString()!).ToDictionary(g => g.Key, g => g.ToList());
-        Assert.Equal(["coefficient", "condition", "decomposition", "error", "psi", "residuals"], byKind.Keys.Order(StringComparer.Ordinal));
+        Assert.Equal(["coefficient", "condition", "decomposition", "error", "psi", "residuals", "vif"], byKind.Keys.Order(StringComparer.Ordinal));
         Assert.Equal(4, byKind["coefficient"].Count);
         foreach (JsonElement chart in charts.RootElement.EnumerateArray())
         {

@@ -59,7 +59,9 @@ internal static class FerryScenario
             description: Ferry boarding minutes (invented test data)
             query: SELECT boarded_at, cars, trucks, wind_ms, minutes FROM boardings WHERE boarded_at >= @window_start AND boarded_at < @window_end
             time_column: boarded_at
-            outcome: minutes
+            outcome:
+              column: minutes
+              unit: minutes
             features: [cars, trucks, wind_ms]
             schedule: 1h
             window: 2h
