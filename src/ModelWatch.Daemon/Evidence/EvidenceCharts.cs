@@ -269,7 +269,7 @@ internal static class EvidenceCharts
 
         if (evidence.Focus is { } focus)
         {
-            chart.Marker(Time(focus), ChartPalette.EvidenceRun, $"{(evidence.Alert is null ? "this run" : "evidence run")} #{focus.Id.ToString(CultureInfo.InvariantCulture)}");
+            chart.Marker(Time(focus), ChartPalette.EvidenceRun, $"{(evidence.Alert is not null ? "evidence run" : evidence.Id == focus.Id ? "this run" : "latest run")} #{focus.Id.ToString(CultureInfo.InvariantCulture)}");
         }
     }
 

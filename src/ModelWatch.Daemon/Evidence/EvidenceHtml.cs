@@ -37,7 +37,7 @@ internal static class EvidenceHtml
         html.Append("<ul class=\"facts\">");
         if (evidence.Alert is { } alert)
         {
-            Fact(html, $"{alert.State}; opened {Time(alert.OpenedAt)}" + (alert.AcknowledgedAt is { } k ? $", acknowledged {Time(k)} by {alert.AcknowledgedBy}" : string.Empty) + (alert.ResolvedAt is { } r ? $", resolved {Time(r)}" : string.Empty));
+            Fact(html, $"{alert.State}; opened {Readable(alert.OpenedAt)}" + (alert.AcknowledgedAt is { } k ? $", acknowledged {Readable(k)} by {alert.AcknowledgedBy}" : string.Empty) + (alert.ResolvedAt is { } r ? $", resolved {Readable(r)}" : string.Empty));
             if (evidence.PreviousAlertId is { } previous)
             {
                 string text = "again, after #" + Id(previous);
@@ -53,7 +53,7 @@ internal static class EvidenceHtml
 
         if (evidence.Focus is { } focus)
         {
-            Fact(html, $"evidence from run #{Id(focus.Id)}: window {Time(focus.WindowStart)} → {Time(focus.WindowEnd)}, {focus.RowsRead.ToString(CultureInfo.InvariantCulture)} rows, {focus.Status}" + (focus.Reason is { } why ? $" ({why})" : string.Empty));
+            Fact(html, $"evidence from run #{Id(focus.Id)}: window {Window(focus)}, {focus.RowsRead.ToString(CultureInfo.InvariantCulture)} rows, {focus.Status}" + (focus.Reason is { } why ? $" ({why})" : string.Empty));
             IReadOnlyList<string> features = EvidenceFacts.FeaturesInvolved(focus);
             Fact(html, "features involved: " + (features.Count == 0 ? "none named by this run's findings" : string.Join(", ", features)));
         }
@@ -67,7 +67,7 @@ internal static class EvidenceHtml
             Fact(html, $"outcome {outcome.Column}" + (outcome.Unit is { } unit ? $", in {unit}" : " (the spec names no unit)"));
         }
 
-        Fact(html, $"history: {evidence.Runs.Count.ToString(CultureInfo.InvariantCulture)} runs of the model (at most {EvidenceLoader.HistoryRuns.ToString(CultureInfo.InvariantCulture)}); times in UTC; page made {Time(generatedAt)}");
+        Fact(html, $"history: {evidence.Runs.Count.ToString(CultureInfo.InvariantCulture)} runs of the model (at most {EvidenceLoader.HistoryRuns.ToString(CultureInfo.InvariantCulture)}); times in UTC; page made {EvidenceFacts.Readable(generatedAt)}");
         html.Append("</ul>");
     }
 
@@ -126,7 +126,7 @@ internal static class EvidenceHtml
 
         if (error.Detail("share_noise") is { } noise && error.Detail("share_level_drift") is { } level && error.Detail("share_slope_drift") is { } slope)
         {
-            html.Append("<table class=\"rows\"><thead><tr><th>part of the increase</th><th>share</th><th>what it means</th></tr></thead><tbody>");
+            html.Append("<table class=\"rows small\"><thead><tr><th>part of the increase</th><th>share</th><th>what it means</th></tr></thead><tbody>");
             Share(html, "noise", noise, Math.Round(noise * 100) < 0 ? "negative: this window is less noisy than the baseline, so noise took error away"
                 : Math.Round(noise * 100) == 0 ? "the window is about as noisy as the baseline" : "the window's own unavoidable error grew");
             Share(html, "level drift", level, "the predictions are off by a constant amount");
@@ -210,9 +210,9 @@ internal static class EvidenceHtml
 
     private static void Fact(StringBuilder html, string text) => html.Append("<li>").Append(Enc(text)).Append("</li>");
 
-    private static string Time(DateTime? utc) => EvidenceFacts.Time(utc) ?? "-";
-
-    private static string Time(DateTimeOffset? value) => EvidenceFacts.Time(value) ?? "-";
+    private static string Window(EvidenceRun run) => run.WindowStart is { } s && run.WindowEnd is { } e
+        ? $"{s.UtcDateTime.ToString("yyyy-MM-dd HH:mm", CultureInfo.InvariantCulture)} to {EvidenceFacts.Readable(e)}"
+        : "none";
 
     private static string Readable(DateTime utc) => EvidenceFacts.Readable(new DateTimeOffset(DateTime.SpecifyKind(utc, DateTimeKind.Utc)));
 

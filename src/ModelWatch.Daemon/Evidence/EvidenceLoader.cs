@@ -68,7 +68,7 @@ internal sealed class EvidenceLoader(StoreDataSources databases, TimeSpan comman
         var baselines = new BaselineRepository(databases.State, TimeProvider.System, commandTimeout);
         return new Evidence
         {
-            Id = latest?.Id ?? 0,
+            Id = 0,
             Model = model,
             Outcome = (record.Spec.Outcome, record.Spec.OutcomeUnit),
             Focus = latest,

@@ -55,14 +55,14 @@ internal static class PageLayout
         .muted { color: #6a6f75; }
         @media (max-width: 700px) {
           main { padding: 8px 10px 32px; }
-          svg .title { font-size: 21px; } svg .tick { font-size: 17px; } svg .axis-title { font-size: 18px; }
+          svg .title { font-size: 22px; } svg .tick { font-size: 18px; } svg .axis-title { font-size: 19px; } svg .xtick.alt { display: none; }
+          .sev { min-width: 0; }
           table.rows th { white-space: normal; }
-          table.rows thead { display: none; }
-          table.rows, table.rows tbody, table.rows tr, table.rows td { display: block; width: 100%; }
-          table.rows tr { border: 1px solid #ddd6c8; border-radius: 6px; margin-bottom: 8px; background: #fff; }
-          table.rows td { display: flex; gap: 12px; justify-content: space-between; border-bottom: 1px solid #f0ece3; }
-          table.rows td.num { text-align: right; }
-          table.rows td::before { content: attr(data-label); font-weight: 600; color: #4a4f55; flex: 0 0 42%; text-align: left; }
+          table.rows:not(.small) thead { display: none; }
+          table.rows:not(.small), table.rows:not(.small) tbody, table.rows:not(.small) tr, table.rows:not(.small) td { display: block; width: 100%; }
+          table.rows:not(.small) tr { border: 1px solid #ddd6c8; border-radius: 6px; margin-bottom: 8px; background: #fff; }
+          table.rows:not(.small) td { display: flex; gap: 12px; justify-content: space-between; border-bottom: 1px solid #f0ece3; }
+          table.rows:not(.small) td::before { content: attr(data-label); font-weight: 600; color: #4a4f55; flex: 0 0 42%; text-align: left; }
         }
         """;
 

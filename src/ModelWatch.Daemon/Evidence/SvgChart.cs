@@ -149,7 +149,7 @@ internal sealed class SvgChart(string title, string xTitle, string yTitle, doubl
             return;
         }
 
-        (TimeSpan step, string format) = TimeSteps.FirstOrDefault(s => span / s.Step.TotalSeconds <= 5, TimeSteps[^1]);
+        (TimeSpan step, string format) = TimeSteps.FirstOrDefault(s => span / s.Step.TotalSeconds <= 4, TimeSteps[^1]);
         long stepSeconds = (long)step.TotalSeconds;
         for (long t = (long)Math.Ceiling(xMin / stepSeconds) * stepSeconds; t <= xMax; t += stepSeconds)
         {
@@ -173,15 +173,29 @@ internal sealed class SvgChart(string title, string xTitle, string yTitle, doubl
             svg.Append(Fmt($"<text x=\"{N(Left - 6)}\" y=\"{N(Y(tick) + 4)}\" class=\"tick\" text-anchor=\"end\">{Enc(Tick(tick))}</text>"));
         }
 
-        foreach ((double x, string line1, string? line2) in _xLabels)
+        double lastRight = double.NegativeInfinity;
+        int shown = 0;
+        foreach ((double x, string line1, string? line2) in _xLabels.OrderBy(l => l.X))
         {
-            // Labels at the plot's edges hang inwards so that they are not cut off.
+            // Labels at the plot's edges hang inwards so that they are not cut off; a label that would touch the one
+            // before it is left out (widths estimated at 7.5 units a character, the desktop font).
             string anchor = X(x) < Left + 36 ? "start" : X(x) > Width - Right - 36 ? "end" : "middle";
+            double half = Math.Max(line1.Length, line2?.Length ?? 0) * 7.5;
+            (double from, double to) = anchor switch { "start" => (X(x), X(x) + half), "end" => (X(x) - half, X(x)), _ => (X(x) - (half / 2), X(x) + (half / 2)) };
+            if (from < lastRight + 8)
+            {
+                continue;
+            }
+
+            lastRight = to;
+
+            // On a phone every other label is hidden (class alt): the font grows there, the chart does not.
+            string alt = _xLabels.Count > 3 && shown++ % 2 == 1 ? " alt" : string.Empty;
             svg.Append(Fmt($"<line x1=\"{N(X(x))}\" x2=\"{N(X(x))}\" y1=\"{N(Height - Bottom)}\" y2=\"{N(Height - Bottom + 4)}\" class=\"axis\"/>"));
-            svg.Append(Fmt($"<text x=\"{N(X(x))}\" y=\"{N(Height - Bottom + 17)}\" class=\"tick\" text-anchor=\"{anchor}\">{Enc(line1)}"));
+            svg.Append(Fmt($"<text x=\"{N(X(x))}\" y=\"{N(Height - Bottom + 17)}\" class=\"tick xtick{alt}\" text-anchor=\"{anchor}\">{Enc(line1)}"));
             if (line2 is not null)
             {
-                svg.Append(Fmt($"<tspan x=\"{N(X(x))}\" dy=\"14\">{Enc(line2)}</tspan>"));
+                svg.Append(Fmt($"<tspan x=\"{N(X(x))}\" dy=\"16\">{Enc(line2)}</tspan>"));
             }
 
             svg.Append("</text>");
