@@ -87,8 +87,8 @@ internal static class EvidenceCharts
             yield break;
         }
 
-        string unit = evidence.Outcome?.Unit is { } u ? " (" + u + ")" : string.Empty;
-        string squared = evidence.Outcome?.Unit is { } su ? " (" + su + "²)" : string.Empty;
+        string unit = " (" + (evidence.Outcome?.Unit ?? "outcome units") + ")";
+        string squared = " (" + (evidence.Outcome?.Unit ?? "outcome units") + "²)";
         double[] xs = [.. rows.Select(x => Time(x.Run))];
         double sRef = Math.Sqrt(rows[^1].F!.Detail("mse_reference") ?? double.NaN);
         (double lo, double hi) = Range(rows.Select(x => x.F!.Detail("rmse")!.Value).Append(sRef).Append(0));

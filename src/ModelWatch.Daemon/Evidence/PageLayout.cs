@@ -55,7 +55,7 @@ internal static class PageLayout
         .muted { color: #6a6f75; }
         @media (max-width: 700px) {
           main { padding: 8px 10px 32px; }
-          svg .title { font-size: 22px; } svg .tick { font-size: 18px; } svg .axis-title { font-size: 19px; } svg .xtick.alt { display: none; }
+          svg .title { font-size: 24px; } svg .tick { font-size: 20px; } svg .axis-title { font-size: 20px; } svg .xtick.alt { display: none; }
           .sev { min-width: 0; }
           table.rows th { white-space: normal; }
           table.rows:not(.small) thead { display: none; }

@@ -16,7 +16,7 @@ internal sealed class SvgChart(string title, string xTitle, string yTitle, doubl
     private const double Left = 62;
     private const double Right = 16;
     private const double Top = 50;
-    private const double Bottom = 62;
+    private const double Bottom = 66;
 
     private static readonly double[] NiceSteps = [1.0, 2.0, 2.5, 5.0, 10.0];
 
@@ -195,7 +195,7 @@ internal sealed class SvgChart(string title, string xTitle, string yTitle, doubl
             svg.Append(Fmt($"<text x=\"{N(X(x))}\" y=\"{N(Height - Bottom + 17)}\" class=\"tick xtick{alt}\" text-anchor=\"{anchor}\">{Enc(line1)}"));
             if (line2 is not null)
             {
-                svg.Append(Fmt($"<tspan x=\"{N(X(x))}\" dy=\"16\">{Enc(line2)}</tspan>"));
+                svg.Append(Fmt($"<tspan x=\"{N(X(x))}\" dy=\"1.15em\">{Enc(line2)}</tspan>"));
             }
 
             svg.Append("</text>");
