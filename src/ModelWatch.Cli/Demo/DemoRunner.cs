@@ -7,6 +7,7 @@ using Microsoft.Extensions.Logging;
 using ModelWatch.Cli.Reports;
 using ModelWatch.Daemon.Alerts;
 using ModelWatch.Daemon.Hosting;
+using ModelWatch.Daemon.Persistence;
 using ModelWatch.Store.Baselines;
 using ModelWatch.Store.Configuration;
 using ModelWatch.Store.Migrations;
@@ -156,7 +157,7 @@ internal sealed class DemoRunner(TextWriter output, TextWriter error)
         {
             await Task.Delay(PollEvery, cancellationToken);
             RunTally tally = await progress.RunsAsync(cancellationToken);
-            foreach (AlertTransition transition in await progress.TransitionsAfterAsync(lastEvent, cancellationToken))
+            foreach (ModelAlertEvent transition in await progress.TransitionsAfterAsync(lastEvent, cancellationToken))
             {
                 lastEvent = transition.EventId;
                 view.Transition(transition);
