@@ -83,10 +83,13 @@ internal sealed class DemoRunner(TextWriter output, TextWriter error)
             output.WriteLine($"  In the terminal: modelwatch explain {main.Id.ToString(CultureInfo.InvariantCulture)}{KeepHint(keep, database)}");
         }
 
-        if (keep && database.Started)
+        if (keep && database.Cluster is { } cluster)
         {
+            string state = KeptDemoDatabases.Remember(cluster);
             output.WriteLine($"The database is left running: {database.ConnectionString}");
             output.WriteLine($"  e.g. modelwatch alerts list {DemoScenario.ModelKey} --state all --database \"{database.ConnectionString}\"");
+            output.WriteLine($"  Its data end at the current slot ({Stamp(DemoScenario.DataEnd)}): a live daemon carries on from there, ConnectionStrings__State=\"{database.ConnectionString}\" modelwatch daemon");
+            output.WriteLine($"  Stop it and remove its files (in {cluster.Root}) with: modelwatch demo --stop   (recorded in {state})");
         }
         else if (database.Started)
         {
