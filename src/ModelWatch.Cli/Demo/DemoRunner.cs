@@ -47,9 +47,9 @@ internal sealed class DemoRunner(TextWriter output, TextWriter error)
         // before the next slot, which would read a window with no data.
         var clock = new AcceleratedClock(DemoScenario.BaselineEnd.AddMinutes(1), Speed, DemoScenario.DataEnd.AddHours(1));
         long rows = await DemoScenario.SeedAsync(databases.State, cancellationToken);
-        output.WriteLine($"Seeded {rows:N0} deliveries in {DemoScenario.Table}, {Day(DemoScenario.DataStart)} to {Day(DemoScenario.DataEnd.AddDays(-1))} (25 an hour).");
+        output.WriteLine($"Seeded {rows:N0} deliveries in {DemoScenario.Table}, {Stamp(DemoScenario.DataStart)} to {Stamp(DemoScenario.DataEnd)}, the current 6-hour slot (25 an hour).");
         StoredBaseline baseline = await DemoScenario.RegisterAsync(databases, clock, "demo", cancellationToken);
-        output.WriteLine($"Registered model {DemoScenario.ModelKey} (every 6 h on a rolling 24 h window: each run re-reads the last day); baseline v{baseline.Version} fitted on the clean week {Day(DemoScenario.DataStart)} to {Day(DemoScenario.BaselineEnd.AddDays(-1))}:");
+        output.WriteLine($"Registered model {DemoScenario.ModelKey} (every 6 h on a rolling 24 h window: each run re-reads the last day); baseline v{baseline.Version} fitted on the clean week {Stamp(DemoScenario.DataStart)} to {Stamp(DemoScenario.BaselineEnd)}:");
         output.WriteLine("  minutes = " + string.Join(" + ", baseline.Reference.Coefficients.Select(c => c.Key == "(intercept)" ? Number(c.Value) : $"{Number(c.Value)}·{c.Key}")) +
             $"   (residual SD {Number(baseline.Reference.ResidualStandardDeviation)} min)");
         output.WriteLine("Planted incidents (the daemon is not told):");

@@ -11,7 +11,17 @@ namespace ModelWatch.Cli.Demo;
 /// </summary>
 internal static class KeptDemoDatabases
 {
-    public static string Folder => Path.Combine(Path.GetTempPath(), "modelwatch-demo", "kept");
+    private static readonly AsyncLocal<string?> OtherFolder = new();
+
+    public static string Folder => OtherFolder.Value ?? Path.Combine(Path.GetTempPath(), "modelwatch-demo", "kept");
+
+    /// <summary>Keeps the state files in another folder for the calling flow, so a test never stops a person's kept demo.</summary>
+    internal static IDisposable UseFolder(string folder)
+    {
+        string? before = OtherFolder.Value;
+        OtherFolder.Value = folder;
+        return new FolderScope(() => OtherFolder.Value = before);
+    }
 
     /// <summary>Records a cluster left running; returns the state file's path.</summary>
     public static string Remember(ThrowawayCluster cluster)
@@ -74,4 +84,9 @@ internal static class KeptDemoDatabases
     }
 
     private static readonly JsonSerializerOptions Json = new() { PropertyNamingPolicy = JsonNamingPolicy.SnakeCaseLower, WriteIndented = true };
+
+    private sealed class FolderScope(Action restore) : IDisposable
+    {
+        public void Dispose() => restore();
+    }
 }
