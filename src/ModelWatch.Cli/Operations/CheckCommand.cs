@@ -19,7 +19,7 @@ internal static class CheckCommand
     public static Command Create()
     {
         var key = new Argument<string>("key") { Description = "Model key" };
-        var at = OperationOptions.Time("--at", "Run the slot at or before this time (default: now)", required: false);
+        var at = OperationOptions.Time("--at", "Run the slot at or before this time (default: now); a past slot is evaluated as it stood then, by replaying the windows since the baseline's reference window", required: false);
         var format = OperationOptions.Format();
         var failOn = new Option<string?>("--fail-on") { Description = "Exit with code 1 when a finding is at or above this severity: warning or critical" };
         failOn.Validators.Add(result =>

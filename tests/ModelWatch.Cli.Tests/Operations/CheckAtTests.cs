@@ -75,6 +75,37 @@ public sealed class CheckAtTests(PostgresDatabase database) : IClassFixture<Post
     }
 
     [Fact]
+    public async Task A_replay_whose_first_window_has_lost_its_rows_is_refused()
+    {
+        // The same cycles in a table whose retention removed everything before 10:00 on the second day, after the
+        // baseline was fitted on the first.
+        await Execute("CREATE TABLE wash_cycles_pruned AS SELECT * FROM wash_cycles");
+        string spec = Path.Combine(_folder, "laundry-pruned.yaml");
+        await File.WriteAllTextAsync(spec, """
+            key: laundry-pruned
+            query: SELECT finished_at, load_kg, soil_level, hardness, minutes FROM wash_cycles_pruned WHERE finished_at >= @window_start AND finished_at < @window_end
+            time_column: finished_at
+            outcome: minutes
+            features: [load_kg, soil_level, hardness]
+            schedule: 1h
+            window: 2h
+            min_rows: 20
+            """);
+        Assert.Equal(ExitCodes.Ok, (await LaundryScenario.Cli(database, "model", "apply", spec)).ExitCode);
+        Assert.Equal(ExitCodes.Ok, (await LaundryScenario.Cli(database, "baseline", "fit", "laundry-pruned", "--from", "2026-02-01T00:00:00Z", "--to", "2026-02-02T00:00:00Z")).ExitCode);
+        await Execute("DELETE FROM wash_cycles_pruned WHERE finished_at < '2026-02-02T10:00:00Z'");
+
+        CliRun check = await LaundryScenario.Cli(database, "check", "laundry-pruned", "--at", InsideTheChange);
+
+        Assert.Equal(ExitCodes.Usage, check.ExitCode);
+        Assert.Contains(
+            "the source returns no rows for the first window of the replay (2026-02-01T22:00:00Z to 2026-02-02T00:00:00Z); the rows before the slot may have been removed. " +
+            $"Run 'modelwatch backtest laundry-pruned --from 2026-02-02T00:00:00Z --to {InsideTheChange}'",
+            check.Error,
+            StringComparison.Ordinal);
+    }
+
+    [Fact]
     public async Task Record_refuses_a_slot_behind_the_recorded_history_and_writes_nothing()
     {
         string before = await LaundryScenario.StoredCountsAsync(database);
@@ -92,6 +123,12 @@ public sealed class CheckAtTests(PostgresDatabase database) : IClassFixture<Post
 
     private static string[] Findings(JsonElement findings) =>
         [.. findings.EnumerateArray().Select(f => string.Join('|', f.EnumerateObject().Select(p => p.Value.ToString())))];
+
+    private async Task Execute(string sql)
+    {
+        await using NpgsqlCommand command = database.DataSource.CreateCommand(sql);
+        await command.ExecuteNonQueryAsync();
+    }
 
     private async Task<long> Count(string sql)
     {
