@@ -1,4 +1,5 @@
 using ModelWatch.Cli.Output;
+using ModelWatch.Daemon.Alerts;
 using ModelWatch.Daemon.Persistence;
 using ModelWatch.Daemon.Runs;
 using ModelWatch.Daemon.Scheduling;
@@ -14,8 +15,8 @@ namespace ModelWatch.Cli.Operations;
 /// </summary>
 internal static class CheckRecording
 {
-    /// <summary>The lease owner of commands run by a person: <c>cli:&lt;user&gt;</c>.</summary>
-    public static string Worker => "cli:" + Environment.UserName;
+    /// <summary>The lease owner and actor of a person's recorded check: <c>check:user@host</c> (see <see cref="Actors"/>).</summary>
+    public static string Worker => Actors.CheckRun;
 
     /// <summary>
     /// Refuses a slot behind the model's recorded history: the memory kept in the state database belongs to the newest
