@@ -20,18 +20,18 @@ public static class BaselineCapabilities
         bool featureSamples = q > 0 && baseline.FeatureSamples.Count == q && baseline.SampleSize >= MinimumSample;
         return
         [
-            new("residuals: shape (Kolmogorov–Smirnov, Anderson–Darling) and spread (Brown–Forsythe)", "the reference residual sample",
+            new("residuals: shape (Kolmogorov–Smirnov, Anderson–Darling) and spread (Brown–Forsythe)", "reference residual sample",
                 baseline.ResidualSample.Count >= MinimumSample, true),
-            new("coefficients: Chow test; prediction_error: Chow's predictive F", "the reference factor", factor, true),
-            new("coefficients and residuals: sequential CUSUMs", "the reference factor", factor, true),
+            new("coefficients: Chow test; prediction_error: Chow's predictive F", "reference factor", factor, true),
+            new("coefficients and residuals: sequential CUSUMs", "reference factor", factor, true),
             new("features: population stability index and bin-share CUSUMs", "feature quantile bins", q > 0 && baseline.FeatureBins.Count == q, true),
             new("features: two-sample Kolmogorov–Smirnov", "reference feature samples", featureSamples, true),
             new("features: mean CUSUMs", "reference feature means and standard deviations",
                 q > 0 && baseline.FeatureMeans.Count == q && baseline.FeatureStandardDeviations.Count == q, true),
             new("features: extrapolation (leverage exceedance)", "reference leverage quantiles", baseline.LeverageExceedanceShare is not null, true),
-            new("collinearity: growth against the reference condition number and VIFs, with its resampled null", "the reference condition number and feature samples",
+            new("collinearity: growth against the reference condition number and VIFs, with its resampled null", "reference condition number and feature samples",
                 baseline.ConditionNumber is not null && featureSamples, true),
-            new("coefficients: Wald test; residuals: bias test", "the coefficient covariance", baseline.Covariance is not null, false),
+            new("coefficients: Wald test; residuals: bias test", "coefficient covariance", baseline.Covariance is not null, false),
             new("coefficients: per-coefficient z tests", "coefficient standard errors", baseline.Covariance is not null || baseline.StandardErrors is not null, false),
         ];
     }

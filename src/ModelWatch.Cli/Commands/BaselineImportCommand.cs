@@ -58,7 +58,7 @@ internal static class BaselineImportCommand
 
         foreach (BaselineCapability capability in BaselineCapabilities.Of(reference).Where(c => !c.FromReferenceRows && !c.Available))
         {
-            error.WriteLine($"modelwatch baseline import: warning: model {outcome.ModelKey}: the file carries no {capability.Needs}, so {capability.Tests} will be skipped");
+            error.WriteLine($"modelwatch baseline import: warning: model {outcome.ModelKey}: the file carries no {capability.Needs}, so these tests will be skipped: {capability.Tests}");
         }
     }
 }

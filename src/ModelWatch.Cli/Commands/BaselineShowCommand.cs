@@ -86,7 +86,7 @@ internal static class BaselineShowCommand
         string bins = r.FeatureBins.Count == 0 ? "no feature bins" : Invariant($"quantile bins of {r.FeatureBins.Count} feature(s)");
         string leverage = r.LeverageThreshold is null ? "no leverage quantiles" : "leverage quantiles";
         return Invariant(
-            $"{r.SampleSize} row(s) sampled (seed {r.Seed}): {r.ResidualSample.Count} standardized residual(s), values of {r.FeatureSamples.Count} feature(s), {bins}, {leverage}; factor of {r.FactorRowCount} reference row(s)");
+            $"{r.SampleSize} row(s) sampled (seed {r.Seed}): {r.ResidualSample.Count} standardized residual(s), values of {r.FeatureSamples.Count(f => f.Length > 0)} feature(s), {bins}, {leverage}; factor of {r.FactorRowCount} reference row(s)");
     }
 
     private static void WriteJson(Utf8JsonWriter writer, StoredBaseline baseline, bool active)
@@ -123,7 +123,7 @@ internal static class BaselineShowCommand
         writer.WriteStartObject("reference_sample");
         writer.WriteNumber("rows_sampled", r.SampleSize);
         writer.WriteNumber("residuals", r.ResidualSample.Count);
-        writer.WriteNumber("features_sampled", r.FeatureSamples.Count);
+        writer.WriteNumber("features_sampled", r.FeatureSamples.Count(f => f.Length > 0));
         writer.WriteNumber("features_binned", r.FeatureBins.Count);
         writer.WriteBoolean("leverage_quantiles", r.LeverageThreshold is not null);
         writer.WriteNumber("factor_rows", r.FactorRowCount);
