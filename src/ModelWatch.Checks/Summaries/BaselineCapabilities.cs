@@ -22,7 +22,7 @@ public static class BaselineCapabilities
         [
             new("residuals: shape (Kolmogorov–Smirnov, Anderson–Darling) and spread (Brown–Forsythe)", "reference residual sample",
                 baseline.ResidualSample.Count >= MinimumSample, true),
-            new("coefficients: Chow test; prediction_error: Chow's predictive F", "reference factor", factor, true),
+            new("coefficients: Chow test; error: Chow's predictive F", "reference factor", factor, true),
             new("coefficients and residuals: sequential CUSUMs", "reference factor", factor, true),
             new("features: population stability index and bin-share CUSUMs", "feature quantile bins", q > 0 && baseline.FeatureBins.Count == q, true),
             new("features: two-sample Kolmogorov–Smirnov", "reference feature samples", featureSamples, true),

@@ -227,7 +227,7 @@ public sealed class BaselineLifecycleTests(PostgresDatabase database) : IClassFi
         Assert.Equal(0, import.ExitCode);
         Assert.Contains("life-import baseline version 1 has no reference sample", import.Error, StringComparison.Ordinal);
         Assert.Contains("residuals: shape (Kolmogorov–Smirnov, Anderson–Darling) and spread (Brown–Forsythe)", import.Error, StringComparison.Ordinal);
-        Assert.Contains("coefficients: Chow test; prediction_error: Chow's predictive F", import.Error, StringComparison.Ordinal);
+        Assert.Contains("coefficients: Chow test; error: Chow's predictive F", import.Error, StringComparison.Ordinal);
         Assert.Contains("features: population stability index and bin-share CUSUMs", import.Error, StringComparison.Ordinal);
         Assert.Contains("features: extrapolation (leverage exceedance)", import.Error, StringComparison.Ordinal);
         Assert.Contains("the file carries no coefficient covariance, so these tests will be skipped: coefficients: Wald test; residuals: bias test", import.Error, StringComparison.Ordinal);
