@@ -166,13 +166,7 @@ public sealed class AlertRepository(NpgsqlDataSource dataSource, TimeSpan comman
             new { id, target, severity = alert.Severity, actor, now, explanation = note ?? $"{target} by {actor}" }));
         if (target == "resolved")
         {
-            await connection.ExecuteAsync(Command(
-                """
-                UPDATE modelwatch.alert_policy_state
-                   SET state = state || '{"open": false, "recent": [], "consecutive_ok": 0}'::jsonb, updated_at = @now
-                 WHERE model_key = @model AND check_name = @check AND subject IS NOT DISTINCT FROM @subject
-                """,
-                new { model = alert.ModelKey, check = alert.CheckName, subject = alert.Subject, now }));
+await AlertPolicyMemory.ResetAsync(connection, transaction, Seconds, alert.ModelKey, alert.CheckName, alert.Subject, now, cancellationToken);
         }
 
         await transaction.CommitAsync(cancellationToken);

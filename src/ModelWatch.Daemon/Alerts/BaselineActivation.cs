@@ -117,13 +117,7 @@ public sealed class BaselineActivation
                 new { id = alert.Id, severity = alert.Severity, actor, now, explanation }));
 
             // As after a human resolution: evidence against the new baseline opens a fresh alert, not this one's memory.
-            await connection.ExecuteAsync(Command(
-                """
-                UPDATE modelwatch.alert_policy_state
-                   SET state = state || '{"open": false, "recent": [], "consecutive_ok": 0}'::jsonb, updated_at = @now
-                 WHERE model_key = @modelKey AND check_name = @check AND subject IS NOT DISTINCT FROM @subject
-                """,
-                new { modelKey, check = alert.CheckName, subject = alert.Subject, now }));
+await AlertPolicyMemory.ResetAsync(connection, transaction, _timeoutSeconds, modelKey, alert.CheckName, alert.Subject, now, cancellationToken);
         }
 
         return new ActivationOutcome(modelKey, version, previous, [.. stale.Select(a => a.Id)], []);
