@@ -109,7 +109,7 @@ internal static class AlertsCommand
 
             foreach (AlertHistoryEntry entry in history)
             {
-                output.WriteLine(TerminalText.Clean($"  {CliJson.Time(entry.At)}  {entry.Transition,-12} {entry.Severity,-8} by {entry.Actor}{(entry.RunId is { } run ? $" (run {run})" : string.Empty)}: {entry.Explanation}"));
+                output.WriteLine(TerminalText.Clean($"  {CliJson.Time(entry.At)}  {entry.Transition,-12} {(entry.Transition is "opened" or "escalated" ? entry.Severity : string.Empty),-8} by {entry.Actor}{(entry.RunId is { } run ? $" (run {run})" : string.Empty)}: {entry.Explanation}"));
                 foreach (NotificationStatus notification in entry.Notifications)
                 {
                     string attempts = notification.Attempts == 1 ? "1 attempt" : $"{notification.Attempts} attempts";
