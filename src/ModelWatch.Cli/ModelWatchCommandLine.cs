@@ -16,7 +16,9 @@ public static class ModelWatchCommandLine
         root.Subcommands.Add(BaselineCommand.Create());
         root.Subcommands.Add(DaemonCommand.Create());
         root.Subcommands.Add(RunsCommand.Create());
+        root.Subcommands.Add(StatusCommand.Create());
         root.Subcommands.Add(AlertsCommand.Create());
+        root.Subcommands.Add(QuietCommand.Create());
         root.Subcommands.Add(ExplainCommand.Create());
         root.Subcommands.Add(Operations.CheckCommand.Create());
         root.Subcommands.Add(Operations.BacktestCommand.Create());

@@ -8,14 +8,15 @@ using ModelWatch.Daemon.Alerts;
 namespace ModelWatch.Cli.Commands;
 
 /// <summary>
-/// <c>modelwatch alerts list|show|ack|resolve|silence|resend</c>: triage from the command line. Changes record the actor
-/// (<c>--actor</c>, default the current user) and an optional <c>--note</c>.
+/// <c>modelwatch alerts list|show|ack|resolve|resend</c>: triage from the command line. Changes record the actor
+/// (<c>--actor</c>, default the current user as <c>person:user@host</c>) and an optional <c>--note</c>; acknowledging or
+/// resolving twice changes nothing and says who did it first. Notifications are held with <c>modelwatch quiet</c>.
 /// </summary>
 internal static class AlertsCommand
 {
-    public static Command Create() => new("alerts", "Alert triage: list, show, acknowledge, resolve, silence, resend notifications")
+    public static Command Create() => new("alerts", "Alert triage: list, show, acknowledge, resolve, resend notifications")
     {
-        List(), Show(), Change("ack", "Acknowledge an open alert"), Change("resolve", "Resolve an open or acknowledged alert"), Silence(), Resend(),
+        List(), Show(), Change("ack", "Acknowledge an open alert"), Change("resolve", "Resolve an open or acknowledged alert"), Resend(),
     };
 
     private static Command List()
@@ -46,10 +47,24 @@ internal static class AlertsCommand
                 return ExitCodes.Ok;
             }
 
-            List<string[]> rows = [["ID", "MODEL", "CHECK", "SUBJECT", "SEVERITY", "STATE", "OPENED", "EXPLANATION"]];
+            if (alerts.Count == 0)
+            {
+                output.WriteLine(parse.GetValue(state) is "all" ? "no alerts" : $"no {parse.GetValue(state)} alerts");
+                return ExitCodes.Ok;
+            }
+
+            List<string[]> rows = [["ALERT", "MODEL", "CHECK", "SUBJECT", "STATE", "OPENED", "OPENED AS", "LATEST EVIDENCE", "QUIET UNTIL"]];
             rows.AddRange(alerts.Select(a => new[]
             {
-                a.Id.ToString(CultureInfo.InvariantCulture), a.Model, a.Check, a.Subject ?? "-", a.Severity, a.State, CliJson.Time(a.OpenedAt)!, a.Explanation ?? string.Empty,
+                "#" + a.Id.ToString(CultureInfo.InvariantCulture),
+                a.Model,
+                a.Check,
+                a.Subject ?? "-",
+                a.State,
+                CliJson.Time(a.OpenedAt)!,
+                Opening(a),
+                Latest(a),
+                a.QuietUntil is null ? "-" : CliJson.Time(a.QuietUntil)!,
             }));
             CliJson.WriteTable(output, rows);
             return ExitCodes.Ok;
@@ -69,7 +84,7 @@ internal static class AlertsCommand
             AlertView? alert = await repository.GetAsync(parse.GetValue(id), ct);
             if (alert is null)
             {
-                parse.InvocationConfiguration.Error.WriteLine($"modelwatch alerts show: alert {parse.GetValue(id)} does not exist");
+                parse.InvocationConfiguration.Error.WriteLine($"modelwatch alerts show: no alert #{parse.GetValue(id)}");
                 return ExitCodes.RuntimeError;
             }
 
@@ -80,8 +95,13 @@ internal static class AlertsCommand
                 return ExitCodes.Ok;
             }
 
-            output.WriteLine(TerminalText.Clean($"alert {alert.Id}: {alert.Model} / {alert.Check}{(alert.Subject is null ? string.Empty : " / " + alert.Subject)} — {alert.Severity}, {alert.State}"));
-            output.WriteLine("  " + TerminalText.Clean(alert.Explanation));
+            output.WriteLine(TerminalText.Clean($"alert #{alert.Id}: {alert.Model} / {alert.Check}{(alert.Subject is null ? string.Empty : " / " + alert.Subject)} — {alert.State}{Again(alert)}"));
+            output.WriteLine(TerminalText.Clean($"  opened as:       {Opening(alert)}"));
+            output.WriteLine(TerminalText.Clean($"  latest evidence: {Latest(alert)}"));
+            if (alert.QuietUntil is not null)
+            {
+                output.WriteLine($"  notifications held by a quiet period until {CliJson.Time(alert.QuietUntil)}");
+            }
             if (alert.Note is not null)
             {
                 output.WriteLine("  note: " + TerminalText.Clean(alert.Note));
@@ -89,7 +109,7 @@ internal static class AlertsCommand
 
             foreach (AlertHistoryEntry entry in history)
             {
-                output.WriteLine(TerminalText.Clean($"  {CliJson.Time(entry.At)}  {entry.Transition,-12} {entry.Severity,-8} by {entry.Actor}{(entry.RunId is { } run ? $" (run {run})" : string.Empty)}: {entry.Explanation}"));
+                output.WriteLine(TerminalText.Clean($"  {CliJson.Time(entry.At)}  {entry.Transition,-12} {(entry.Transition is "opened" or "escalated" ? entry.Severity : string.Empty),-8} by {entry.Actor}{(entry.RunId is { } run ? $" (run {run})" : string.Empty)}: {entry.Explanation}"));
                 foreach (NotificationStatus notification in entry.Notifications)
                 {
                     string attempts = notification.Attempts == 1 ? "1 attempt" : $"{notification.Attempts} attempts";
@@ -105,7 +125,7 @@ internal static class AlertsCommand
     private static Command Change(string verb, string description)
     {
         var id = new Argument<long>("id") { Description = "Alert id" };
-        var actor = new Option<string>("--actor") { Description = "Who is acting (default: the current user)", DefaultValueFactory = _ => StoreCommandRunner.Actor };
+        var actor = ActorOption();
         var note = new Option<string?>("--note") { Description = "A note kept with the alert" };
         var database = StoreCommandRunner.DatabaseOption();
         var command = new Command(verb, description) { id, actor, note, database };
@@ -113,41 +133,17 @@ internal static class AlertsCommand
         {
             AlertRepository repository = Repository(databases);
             long alertId = parse.GetValue(id);
-            string? problem = verb == "ack"
-                ? await repository.AcknowledgeAsync(alertId, parse.GetRequiredValue(actor), parse.GetValue(note), TimeProvider.System.GetUtcNow(), ct)
-                : await repository.ResolveAsync(alertId, parse.GetRequiredValue(actor), parse.GetValue(note), TimeProvider.System.GetUtcNow(), ct);
-            if (problem is not null)
+            string who = Actor(parse, actor);
+            AlertChange change = verb == "ack"
+                ? await repository.AcknowledgeAsync(alertId, who, parse.GetValue(note), TimeProvider.System.GetUtcNow(), ct)
+                : await repository.ResolveAsync(alertId, who, parse.GetValue(note), TimeProvider.System.GetUtcNow(), ct);
+            if (change.Kind == AlertChangeKind.NotFound)
             {
-                parse.InvocationConfiguration.Error.WriteLine($"modelwatch alerts {verb}: {problem}");
+                parse.InvocationConfiguration.Error.WriteLine($"modelwatch alerts {verb}: {change.Message}");
                 return ExitCodes.RuntimeError;
             }
 
-            output.WriteLine($"alert {alertId} {(verb == "ack" ? "acknowledged" : "resolved")} by {parse.GetRequiredValue(actor)}");
-            return ExitCodes.Ok;
-        }, cancellationToken));
-        return command;
-    }
-
-    private static Command Silence()
-    {
-        var key = new Argument<string>("key") { Description = "Model key" };
-        var check = new Option<string?>("--check") { Description = "Only this check (default: every check of the model)" };
-        var until = OperationOptions.Time("--until", "When the silence ends", required: true);
-        var reason = new Option<string>("--reason") { Description = "Why (kept with the silence)", Required = true };
-        var actor = new Option<string>("--actor") { Description = "Who is acting (default: the current user)", DefaultValueFactory = _ => StoreCommandRunner.Actor };
-        var database = StoreCommandRunner.DatabaseOption();
-        var command = new Command("silence", "Stop notifications for a model (or one check) until a time; runs and alerts go on") { key, check, until, reason, actor, database };
-        command.SetAction((parse, cancellationToken) => StoreCommandRunner.RunAsync(parse, "alerts silence", database, async (databases, output, ct) =>
-        {
-            DateTimeOffset end = parse.GetValue(until)!.Value;
-            DateTimeOffset now = TimeProvider.System.GetUtcNow();
-            if (end <= now)
-            {
-                throw new FormatException($"--until: {CliJson.Time(end)} is not in the future");
-            }
-
-            long silence = await Repository(databases).SilenceAsync(parse.GetRequiredValue(key), parse.GetValue(check), end, parse.GetRequiredValue(reason), parse.GetRequiredValue(actor), now, ct);
-            output.WriteLine($"silence {silence}: notifications for {parse.GetRequiredValue(key)}{(parse.GetValue(check) is { } c ? " / " + c : string.Empty)} stop until {CliJson.Time(end)}");
+            output.WriteLine(TerminalText.Clean(change.Message));
             return ExitCodes.Ok;
         }, cancellationToken));
         return command;
@@ -175,7 +171,7 @@ internal static class AlertsCommand
             long? alertId = parse.GetValue(id);
             if (alertId is { } one && await repository.GetAsync(one, ct) is null)
             {
-                parse.InvocationConfiguration.Error.WriteLine($"modelwatch alerts resend: alert {one} does not exist");
+                parse.InvocationConfiguration.Error.WriteLine($"modelwatch alerts resend: no alert #{one}");
                 return ExitCodes.RuntimeError;
             }
 
@@ -186,6 +182,22 @@ internal static class AlertsCommand
         }, cancellationToken));
         return command;
     }
+
+    /// <summary>The <c>--actor</c> option of commands that change state: who is acting, default the current user.</summary>
+    internal static Option<string?> ActorOption() => new("--actor") { Description = "Who is acting, recorded as person:NAME (default: the current user, person:user@host)" };
+
+    /// <summary>The actor a command records: <c>--actor NAME</c> as <c>person:NAME</c>, else the current user.</summary>
+    internal static string Actor(ParseResult parse, Option<string?> actor) =>
+        parse.GetValue(actor) is { Length: > 0 } name ? Actors.Person(name) : Actors.CurrentPerson;
+
+    private static string Again(AlertView alert) =>
+        alert.PreviousAlertId is { } previous ? $" (again, after #{previous.ToString(CultureInfo.InvariantCulture)})" : string.Empty;
+
+    private static string Opening(AlertView alert) =>
+        $"{alert.OpeningSeverity}{Again(alert)}: {alert.OpeningExplanation}";
+
+    private static string Latest(AlertView alert) =>
+        alert.Explanation is null ? "-" : $"{alert.LatestSeverity ?? "recorded"}: {alert.Explanation}";
 
     private static Option<OutputFormat> FormatOption() => new("--format") { Description = "table or json", DefaultValueFactory = _ => OutputFormat.Table };
 
@@ -210,6 +222,27 @@ internal static class AlertsCommand
         WriteNullable(writer, "first_run_id", alert.FirstRunId);
         WriteNullable(writer, "last_run_id", alert.LastRunId);
         writer.WriteString("note", alert.Note);
+        WriteNullable(writer, "previous_alert", alert.PreviousAlertId);
+        WriteNullable(writer, "baseline_version", alert.BaselineVersion);
+        CliJson.WriteTime(writer, "quiet_until", alert.QuietUntil);
+        writer.WriteStartObject("opening");
+        writer.WriteString("severity", alert.OpeningSeverity);
+        writer.WriteString("statistic", alert.OpeningStatistic);
+        JsonNumbers.Write(writer, "value", alert.OpeningValue);
+        JsonNumbers.Write(writer, "threshold", alert.OpeningThreshold);
+        JsonNumbers.Write(writer, "p_value", alert.OpeningPValue);
+        writer.WriteString("explanation", alert.OpeningExplanation);
+        writer.WriteEndObject();
+        writer.WriteStartObject("latest");
+        writer.WriteString("severity", alert.LatestSeverity);
+        writer.WriteString("statistic", alert.Statistic);
+        JsonNumbers.Write(writer, "value", alert.Value);
+        JsonNumbers.Write(writer, "threshold", alert.Threshold);
+        JsonNumbers.Write(writer, "p_value", alert.PValue);
+        writer.WriteString("explanation", alert.Explanation);
+        writer.WriteEndObject();
+
+        // Kept for scripts written against earlier releases: the latest evidence, flat.
         writer.WriteString("statistic", alert.Statistic);
         JsonNumbers.Write(writer, "value", alert.Value);
         JsonNumbers.Write(writer, "threshold", alert.Threshold);
@@ -251,6 +284,8 @@ internal static class AlertsCommand
 
         writer.WriteEndObject();
     }
+
+    private static void WriteNullable(Utf8JsonWriter writer, string name, int? value) => WriteNullable(writer, name, (long?)value);
 
     private static void WriteNullable(Utf8JsonWriter writer, string name, long? value)
     {

@@ -1,6 +1,7 @@
 using System.CommandLine;
 using System.Text.Json;
 using ModelWatch.Cli.Output;
+using ModelWatch.Daemon.Alerts;
 using ModelWatch.Store.Models;
 
 namespace ModelWatch.Cli.Commands;
@@ -65,9 +66,10 @@ internal static class ModelListCommand
                 return ExitCodes.RuntimeError;
             }
 
+            IReadOnlyList<QuietPeriod> quiet = await new QuietPeriodRepository(databases.State, StoreCommandRunner.CommandTimeout).ListAsync(false, model.Key, TimeProvider.System.GetUtcNow(), ct);
             if (parse.GetValue(format) == OutputFormat.Json)
             {
-                CliJson.Write(output, writer => WriteModel(writer, model, withSpec: true));
+                CliJson.Write(output, writer => WriteModel(writer, model, withSpec: true, quiet));
                 return ExitCodes.Ok;
             }
 
@@ -77,6 +79,8 @@ internal static class ModelListCommand
             output.WriteLine($"schedule:  {model.Spec.Schedule.Text}, window {model.Spec.Window}, label delay {model.Spec.LabelDelay}, next due {CliJson.Time(model.NextDueSlot) ?? "-"}");
             output.WriteLine($"baseline:  {(model.BaselineProblem is { } problem ? problem : $"version {model.BaselineVersion}")}");
             output.WriteLine($"lease:     {(model.LeaseOwner is null ? "-" : $"{model.LeaseOwner} until {CliJson.Time(model.LeaseExpiresAt)}")}");
+            output.WriteLine(quiet.Count == 0 ? "quiet:     -" : TerminalText.Clean("quiet:     " + string.Join("; ", quiet.Select(q =>
+                $"{(q.Check ?? "all checks")} until {CliJson.Time(q.Until)} (quiet period {q.Id}, {q.CreatedBy}: {q.Reason})"))));
             output.WriteLine($"spec file: {model.SourceFile ?? "-"}");
             output.WriteLine($"query:     {model.Spec.Query.ReplaceLineEndings(Environment.NewLine + "           ")}");
             return ExitCodes.Ok;
@@ -84,7 +88,7 @@ internal static class ModelListCommand
         return command;
     }
 
-    private static void WriteModel(Utf8JsonWriter writer, ModelRecord model, bool withSpec)
+    private static void WriteModel(Utf8JsonWriter writer, ModelRecord model, bool withSpec, IReadOnlyList<QuietPeriod>? quiet = null)
     {
         writer.WriteStartObject();
         writer.WriteString("key", model.Key);
@@ -107,6 +111,23 @@ internal static class ModelListCommand
         writer.WriteString("lease_owner", model.LeaseOwner);
         writer.WriteString("lease_expires_at", CliJson.Time(model.LeaseExpiresAt));
         writer.WriteString("updated_at", CliJson.Time(model.UpdatedAt));
+        if (quiet is not null)
+        {
+            writer.WriteStartArray("quiet_periods");
+            foreach (QuietPeriod period in quiet)
+            {
+                writer.WriteStartObject();
+                writer.WriteNumber("id", period.Id);
+                writer.WriteString("check", period.Check);
+                writer.WriteString("until", CliJson.Time(period.Until));
+                writer.WriteString("reason", period.Reason);
+                writer.WriteString("created_by", period.CreatedBy);
+                writer.WriteEndObject();
+            }
+
+            writer.WriteEndArray();
+        }
+
         if (withSpec)
         {
             writer.WritePropertyName("spec");

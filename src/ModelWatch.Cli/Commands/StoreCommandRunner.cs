@@ -26,7 +26,7 @@ internal static class StoreCommandRunner
     };
 
     /// <summary>Who made a change, for the created_by columns.</summary>
-    public static string Actor => $"{Environment.UserName}@{Environment.MachineName}";
+    public static string Actor => ModelWatch.Daemon.Alerts.Actors.CurrentPerson;
 
     /// <summary>Opens the databases and runs <paramref name="body"/>, mapping failures to messages and exit codes.</summary>
     public static async Task<int> RunAsync(ParseResult parse, string name, Option<string?> database, Func<StoreDataSources, TextWriter, CancellationToken, Task<int>> body, CancellationToken cancellationToken)

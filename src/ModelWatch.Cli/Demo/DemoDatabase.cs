@@ -29,6 +29,9 @@ internal sealed class DemoDatabase : IAsyncDisposable
     /// <summary>Leave a started database running at dispose.</summary>
     public bool Keep { get; set; }
 
+    /// <summary>The cluster the demo started, or null for a database it was given.</summary>
+    public ThrowawayCluster? Cluster => _cluster;
+
     public static async Task<DemoDatabase> OpenAsync(string? connectionString, string? configured, CancellationToken cancellationToken)
     {
         if (!string.IsNullOrWhiteSpace(connectionString))

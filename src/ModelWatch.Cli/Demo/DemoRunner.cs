@@ -7,6 +7,7 @@ using Microsoft.Extensions.Logging;
 using ModelWatch.Daemon.Alerts;
 using ModelWatch.Daemon.Evidence;
 using ModelWatch.Daemon.Hosting;
+using ModelWatch.Daemon.Persistence;
 using ModelWatch.Store.Baselines;
 using ModelWatch.Store.Configuration;
 using ModelWatch.Store.Migrations;
@@ -46,9 +47,9 @@ internal sealed class DemoRunner(TextWriter output, TextWriter error)
         // before the next slot, which would read a window with no data.
         var clock = new AcceleratedClock(DemoScenario.BaselineEnd.AddMinutes(1), Speed, DemoScenario.DataEnd.AddHours(1));
         long rows = await DemoScenario.SeedAsync(databases.State, cancellationToken);
-        output.WriteLine($"Seeded {rows:N0} deliveries in {DemoScenario.Table}, {Day(DemoScenario.DataStart)} to {Day(DemoScenario.DataEnd.AddDays(-1))} (25 an hour).");
+        output.WriteLine($"Seeded {rows:N0} deliveries in {DemoScenario.Table}, {Stamp(DemoScenario.DataStart)} to {Stamp(DemoScenario.DataEnd)}, the current 6-hour slot (25 an hour).");
         StoredBaseline baseline = await DemoScenario.RegisterAsync(databases, clock, "demo", cancellationToken);
-        output.WriteLine($"Registered model {DemoScenario.ModelKey} (every 6 h on a rolling 24 h window: each run re-reads the last day); baseline v{baseline.Version} fitted on the clean week {Day(DemoScenario.DataStart)} to {Day(DemoScenario.BaselineEnd.AddDays(-1))}:");
+        output.WriteLine($"Registered model {DemoScenario.ModelKey} (every 6 h on a rolling 24 h window: each run re-reads the last day); baseline v{baseline.Version} fitted on the clean week {Stamp(DemoScenario.DataStart)} to {Stamp(DemoScenario.BaselineEnd)}:");
         output.WriteLine("  minutes = " + string.Join(" + ", baseline.Reference.Coefficients.Select(c => c.Key == "(intercept)" ? Number(c.Value) : $"{Number(c.Value)}·{c.Key}")) +
             $"   (residual SD {Number(baseline.Reference.ResidualStandardDeviation)} min)");
         output.WriteLine("Planted incidents (the daemon is not told):");
@@ -82,10 +83,13 @@ internal sealed class DemoRunner(TextWriter output, TextWriter error)
             output.WriteLine($"  In the terminal: modelwatch explain {main.Id.ToString(CultureInfo.InvariantCulture)}{KeepHint(keep, database)}");
         }
 
-        if (keep && database.Started)
+        if (keep && database.Cluster is { } cluster)
         {
+            string state = KeptDemoDatabases.Remember(cluster);
             output.WriteLine($"The database is left running: {database.ConnectionString}");
             output.WriteLine($"  e.g. modelwatch alerts list {DemoScenario.ModelKey} --state all --database \"{database.ConnectionString}\"");
+            output.WriteLine($"  Its data end at the current slot ({Stamp(DemoScenario.DataEnd)}): a live daemon carries on from there, ConnectionStrings__State=\"{database.ConnectionString}\" modelwatch daemon");
+            output.WriteLine($"  Stop it and remove its files (in {cluster.Root}) with: modelwatch demo --stop   (recorded in {state})");
         }
         else if (database.Started)
         {
@@ -156,7 +160,7 @@ internal sealed class DemoRunner(TextWriter output, TextWriter error)
         {
             await Task.Delay(PollEvery, cancellationToken);
             RunTally tally = await progress.RunsAsync(cancellationToken);
-            foreach (AlertTransition transition in await progress.TransitionsAfterAsync(lastEvent, cancellationToken))
+            foreach (ModelAlertEvent transition in await progress.TransitionsAfterAsync(lastEvent, cancellationToken))
             {
                 lastEvent = transition.EventId;
                 view.Transition(transition);

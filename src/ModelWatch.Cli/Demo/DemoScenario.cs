@@ -19,16 +19,20 @@ internal static class DemoScenario
     public const string Schema = "courier_demo";
     public const string Table = Schema + ".deliveries";
 
-    /// <summary>The first delivery (a Monday).</summary>
-    public static readonly DateTimeOffset DataStart = new(2026, 3, 2, 0, 0, 0, TimeSpan.Zero);
+    public static readonly TimeSpan Cadence = TimeSpan.FromHours(6);
+
+    /// <summary>
+    /// End of the data, and the last slot the demo runs: the schedule's current slot when the process started (the
+    /// latest 6-hour boundary, at most 6 hours ago). The scenario ends at the present, so a daemon started on a kept
+    /// demo database carries on from where the demo stopped, and nothing falls behind the 180-day retention.
+    /// </summary>
+    public static readonly DateTimeOffset DataEnd = CurrentSlot(TimeProvider.System.GetUtcNow());
+
+    /// <summary>The first delivery, 36 days before the end.</summary>
+    public static readonly DateTimeOffset DataStart = DataEnd.AddDays(-36);
 
     /// <summary>End of the clean reference week, and start of monitoring.</summary>
     public static readonly DateTimeOffset BaselineEnd = DataStart.AddDays(7);
-
-    /// <summary>End of the data: the last run's window ends here.</summary>
-    public static readonly DateTimeOffset DataEnd = DataStart.AddDays(36);
-
-    public static readonly TimeSpan Cadence = TimeSpan.FromHours(6);
 
     /// <summary>The rolling window each run reads: four times the cadence.</summary>
     public static readonly TimeSpan Window = TimeSpan.FromHours(24);
@@ -125,4 +129,8 @@ internal static class DemoScenario
     }
 
     private static TimeSpan StoreCommandTimeout => TimeSpan.FromSeconds(60);
+
+    /// <summary>The 6-hour slot at or before <paramref name="now"/>, as the spec's schedule counts slots (from the Unix epoch).</summary>
+    internal static DateTimeOffset CurrentSlot(DateTimeOffset now) =>
+        DateTimeOffset.UnixEpoch.AddTicks((now.UtcTicks - DateTimeOffset.UnixEpoch.UtcTicks) / Cadence.Ticks * Cadence.Ticks);
 }

@@ -1,5 +1,6 @@
 using System.Globalization;
 using ModelWatch.Daemon.Alerts;
+using ModelWatch.Daemon.Persistence;
 
 namespace ModelWatch.Cli.Demo;
 
@@ -8,14 +9,25 @@ internal static class DemoSummary
 {
     private const int ExplanationWidth = 110;
 
-    public static string Describe(AlertTransition transition)
+    public static string Describe(ModelAlertEvent transition)
     {
         ArgumentNullException.ThrowIfNull(transition);
         string subject = transition.Check + (transition.Subject is null ? string.Empty : "/" + transition.Subject);
         string explanation = transition.Explanation.Length > ExplanationWidth ? transition.Explanation[..(ExplanationWidth - 1)] + "…" : transition.Explanation;
         return string.Create(CultureInfo.InvariantCulture,
-            $"    {DemoRunner.Stamp(new DateTimeOffset(transition.At, TimeSpan.Zero))}  alert #{transition.AlertId} {transition.Transition.ToUpperInvariant(),-9} {subject,-28} {transition.Severity,-8} {explanation}");
+            $"    {DemoRunner.Stamp(new DateTimeOffset(transition.At, TimeSpan.Zero))}  alert #{transition.AlertId} {What(transition),-9} {subject,-28} {SeverityOf(transition),-8} {explanation}");
     }
+
+    // A resolution's evidence is the reassuring finding that ended the alert: the alert's severity beside it would read
+    // as a critical finding, so only transitions that raise an alert name a severity.
+    private static string SeverityOf(ModelAlertEvent transition) =>
+        transition.Transition is "opened" or "escalated" ? transition.Severity : string.Empty;
+
+    /// <summary>The transition in capitals; an alert that follows a resolved one on the same check names it.</summary>
+    internal static string What(ModelAlertEvent transition) =>
+        transition is { Transition: "opened", PreviousAlertId: { } previous }
+            ? string.Create(CultureInfo.InvariantCulture, $"OPENED (again, after #{previous})")
+            : transition.Transition.ToUpperInvariant();
 
     /// <summary>The alert the evidence report is written for: the first on the check the first incident should trip.</summary>
     public static AlertView? MainAlert(IReadOnlyList<AlertView> alerts)

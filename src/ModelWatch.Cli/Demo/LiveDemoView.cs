@@ -1,3 +1,4 @@
+using ModelWatch.Daemon.Persistence;
 using Spectre.Console;
 
 namespace ModelWatch.Cli.Demo;
@@ -21,7 +22,7 @@ internal sealed class LiveDemoView(IAnsiConsole console, ProgressTask task) : ID
         return result!;
     }
 
-    public void Transition(AlertTransition transition)
+    public void Transition(ModelAlertEvent transition)
     {
         ArgumentNullException.ThrowIfNull(transition);
         string colour = transition.Transition == "resolved" ? "green" : transition.Severity == "critical" ? "red" : "yellow";

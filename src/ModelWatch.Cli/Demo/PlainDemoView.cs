@@ -1,3 +1,5 @@
+using ModelWatch.Daemon.Persistence;
+
 namespace ModelWatch.Cli.Demo;
 
 /// <summary>Progress as plain lines, one per simulated day, for pipes, files and tests.</summary>
@@ -5,7 +7,7 @@ internal sealed class PlainDemoView(TextWriter output) : IDemoView
 {
     private DateTimeOffset _shownDay = DemoScenario.BaselineEnd;
 
-    public void Transition(AlertTransition transition) => output.WriteLine(DemoSummary.Describe(transition));
+    public void Transition(ModelAlertEvent transition) => output.WriteLine(DemoSummary.Describe(transition));
 
     public void Tick(DateTimeOffset now, RunTally tally)
     {

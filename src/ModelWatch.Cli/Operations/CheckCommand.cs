@@ -9,15 +9,17 @@ namespace ModelWatch.Cli.Operations;
 
 /// <summary>
 /// <c>modelwatch check KEY [--at T] [--format table|json] [--fail-on warning|critical] [--record]</c>: one run of the
-/// slot at or before <c>--at</c> through the daemon's pipeline. Without <c>--record</c> it continues from the live
-/// sequential state but writes nothing; with it the run is recorded as a replica would record it.
+/// slot at or before <c>--at</c> through the daemon's pipeline. For the current slot (no <c>--at</c>) it continues from
+/// the live run memory but writes nothing; for a past slot it replays the windows before it as <c>backtest</c> does
+/// (<see cref="CheckReplay"/>); with <c>--record</c> the run is recorded as a replica would record it, in slot order
+/// only (<see cref="CheckRecording.EnsureInOrderAsync"/>).
 /// </summary>
 internal static class CheckCommand
 {
     public static Command Create()
     {
         var key = new Argument<string>("key") { Description = "Model key" };
-        var at = OperationOptions.Time("--at", "Run the slot at or before this time (default: now)", required: false);
+        var at = OperationOptions.Time("--at", "Run the slot at or before this time (default: now); a past slot is evaluated as it stood then, by replaying the windows since the baseline's reference window", required: false);
         var format = OperationOptions.Format();
         var failOn = new Option<string?>("--fail-on") { Description = "Exit with code 1 when a finding is at or above this severity: warning or critical" };
         failOn.Validators.Add(result =>
@@ -34,7 +36,8 @@ internal static class CheckCommand
         command.SetAction((parse, cancellationToken) => OperationServices.RunAsync(parse, "check", database, async (services, output, ct) =>
         {
             ModelRecord model = await services.ModelAsync(parse.GetRequiredValue(key), ct);
-            DateTimeOffset time = parse.GetValue(at) ?? services.Time.GetUtcNow();
+            DateTimeOffset now = services.Time.GetUtcNow();
+            DateTimeOffset time = parse.GetValue(at) ?? now;
             DateTimeOffset slot = model.Spec.Schedule.SlotAtOrBefore(time)
                 ?? throw new OperationException($"model {model.Key}: schedule '{model.Spec.Schedule}' has no slot in the year before {CliJson.Time(time)}");
 
@@ -42,7 +45,12 @@ internal static class CheckCommand
             string? note = null;
             if (parse.GetValue(record))
             {
+                await CheckRecording.EnsureInOrderAsync(services, model, slot, ct);
                 (outcome, note) = await CheckRecording.RunAsync(services, model, slot, ct);
+            }
+            else if (CheckReplay.IsPast(model, slot, now))
+            {
+                (outcome, note) = await CheckReplay.RunAsync(services, output, model, slot, ct);
             }
             else
             {

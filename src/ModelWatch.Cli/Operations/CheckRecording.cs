@@ -1,11 +1,9 @@
-using Dapper;
-using ModelWatch.Cli.Commands;
 using ModelWatch.Cli.Output;
+using ModelWatch.Daemon.Alerts;
 using ModelWatch.Daemon.Persistence;
 using ModelWatch.Daemon.Runs;
 using ModelWatch.Daemon.Scheduling;
 using ModelWatch.Store.Models;
-using Npgsql;
 
 namespace ModelWatch.Cli.Operations;
 
@@ -17,23 +15,32 @@ namespace ModelWatch.Cli.Operations;
 /// </summary>
 internal static class CheckRecording
 {
-    private const string ClaimSql = """
-        UPDATE modelwatch.model
-           SET lease_owner = @worker, lease_expires_at = @expires
-         WHERE key = @key
-           AND (lease_owner IS NULL OR lease_owner = @worker OR lease_expires_at IS NULL OR lease_expires_at <= @now)
-        RETURNING next_due_slot
-        """;
+    /// <summary>The lease owner and actor of a person's recorded check: <c>check:user@host</c> (see <see cref="Actors"/>).</summary>
+    public static string Worker => Actors.CheckRun;
 
-    /// <summary>The lease owner of commands run by a person: <c>cli:&lt;user&gt;</c>.</summary>
-    public static string Worker => "cli:" + Environment.UserName;
+    /// <summary>
+    /// Refuses a slot behind the model's recorded history: the memory kept in the state database belongs to the newest
+    /// recorded run, so a slot before it would be run with memory from its future and recorded out of order. A slot
+    /// after the newest recorded one (the next due slot, or one the daemon passed over since) is recorded with the
+    /// memory as it stood then; the newest recorded slot itself is left to the recorder, which writes nothing twice.
+    /// </summary>
+    public static async Task EnsureInOrderAsync(OperationServices services, ModelRecord model, DateTimeOffset slot, CancellationToken cancellationToken)
+    {
+        if (await services.ManualRuns.NewestRecordedSlotAsync(model.Key, cancellationToken) is { } newest && newest > slot)
+        {
+            throw new OperationRefusal(
+                $"model {model.Key}: slot {CliJson.Time(slot)} is behind the recorded history (the newest recorded slot is {CliJson.Time(newest)}), " +
+                "and --record adds slots in order only. Drop --record to see the slot as it stood then, or run " +
+                $"'modelwatch backtest {model.Key} --from <first slot> --to {CliJson.Time(slot)}'.");
+        }
+    }
 
     /// <summary>Runs and records the slot; returns the outcome and a line that says what was written.</summary>
     public static async Task<(RunOutcome Outcome, string Note)> RunAsync(OperationServices services, ModelRecord model, DateTimeOffset slot, CancellationToken cancellationToken)
     {
         string worker = Worker;
         DateTimeOffset claimedAt = services.Time.GetUtcNow();
-        DateTimeOffset nextDue = await ClaimAsync(services.State, model, worker, claimedAt, services.LeaseDuration, cancellationToken);
+        DateTimeOffset nextDue = await ClaimAsync(services, model, worker, claimedAt, cancellationToken);
         bool released = false;
         try
         {
@@ -60,28 +67,15 @@ internal static class CheckRecording
         }
     }
 
-    private static async Task<DateTimeOffset> ClaimAsync(NpgsqlDataSource state, ModelRecord model, string worker, DateTimeOffset now, TimeSpan lease, CancellationToken cancellationToken)
+    private static async Task<DateTimeOffset> ClaimAsync(OperationServices services, ModelRecord model, string worker, DateTimeOffset now, CancellationToken cancellationToken)
     {
-        int seconds = (int)Math.Ceiling(StoreCommandRunner.CommandTimeout.TotalSeconds);
-        await using NpgsqlConnection connection = await state.OpenConnectionAsync(cancellationToken);
-        var claimed = (await connection.QueryAsync<DateTime?>(new CommandDefinition(
-            ClaimSql,
-            new { key = model.Key, worker, now, expires = now + lease },
-            commandTimeout: seconds,
-            cancellationToken: cancellationToken))).ToList();
-        if (claimed.Count == 0)
+        ManualClaim claim = await services.ManualRuns.ClaimAsync(model.Key, worker, now, services.LeaseDuration, cancellationToken);
+        if (!claim.Claimed)
         {
-            var holder = await connection.QuerySingleOrDefaultAsync<(string? Owner, DateTime? Until)>(new CommandDefinition(
-                "SELECT lease_owner, lease_expires_at FROM modelwatch.model WHERE key = @key",
-                new { key = model.Key },
-                commandTimeout: seconds,
-                cancellationToken: cancellationToken));
-            throw new OperationException($"model {model.Key}: {holder.Owner ?? "another worker"} holds the lease until {CliJson.Time(holder.Until) ?? "?"} (it is running the model now); try again after that");
+            throw new OperationException($"model {model.Key}: {claim.Holder ?? "another worker"} holds the lease until {CliJson.Time(claim.HeldUntil) ?? "?"} (it is running the model now); try again after that");
         }
 
         // A model the daemon has not scheduled yet gets the first slot the daemon itself would give it.
-        return claimed[0] is { } due
-            ? new DateTimeOffset(DateTime.SpecifyKind(due, DateTimeKind.Utc))
-            : SlotPlanner.FirstSlot(model.Spec.Schedule, now);
+        return claim.NextDueSlot ?? SlotPlanner.FirstSlot(model.Spec.Schedule, now);
     }
 }

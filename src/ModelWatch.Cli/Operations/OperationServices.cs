@@ -39,6 +39,8 @@ internal sealed class OperationServices : IAsyncDisposable
         Recorder = _provider.GetRequiredService<RunRecorder>();
         Leases = _provider.GetRequiredService<LeaseRepository>();
         Models = _provider.GetRequiredService<ModelRepository>();
+        Baselines = _provider.GetRequiredService<BaselineCache>();
+        ManualRuns = new ManualRunRepository(databases.State, StoreCommandRunner.CommandTimeout);
         LeaseDuration = _provider.GetRequiredService<IOptions<DaemonOptions>>().Value.LeaseDuration;
     }
 
@@ -54,10 +56,19 @@ internal sealed class OperationServices : IAsyncDisposable
 
     public ModelRepository Models { get; }
 
+    /// <summary>The daemon's cache of stored baselines (a replay reads the reference window's end from it).</summary>
+    public BaselineCache Baselines { get; }
+
+    /// <summary>The lease claim and recorded-history reads of <c>check --record</c>.</summary>
+    public ManualRunRepository ManualRuns { get; }
+
     /// <summary>How long a claim made by <c>check --record</c> lasts: the daemon's <c>Daemon:LeaseDuration</c>.</summary>
     public TimeSpan LeaseDuration { get; }
 
-    /// <summary>Runs a command body like the other store commands, with <see cref="OperationException"/> mapped to exit code 3 too.</summary>
+    /// <summary>
+    /// Runs a command body like the other store commands, with <see cref="OperationException"/> mapped to exit code 3
+    /// too and <see cref="OperationRefusal"/> to exit code 2.
+    /// </summary>
     public static Task<int> RunAsync(ParseResult parse, string name, Option<string?> database, Func<OperationServices, TextWriter, CancellationToken, Task<int>> body, CancellationToken cancellationToken) =>
         StoreCommandRunner.RunAsync(parse, name, database, async (databases, output, ct) =>
         {
@@ -70,6 +81,11 @@ internal sealed class OperationServices : IAsyncDisposable
             {
                 await parse.InvocationConfiguration.Error.WriteLineAsync($"modelwatch {name}: {ex.Message}");
                 return ExitCodes.RuntimeError;
+            }
+            catch (OperationRefusal ex)
+            {
+                await parse.InvocationConfiguration.Error.WriteLineAsync($"modelwatch {name}: {ex.Message}");
+                return ExitCodes.Usage;
             }
         }, cancellationToken);
 

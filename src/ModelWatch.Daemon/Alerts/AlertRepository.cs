@@ -5,20 +5,39 @@ using Npgsql;
 namespace ModelWatch.Daemon.Alerts;
 
 /// <summary>
-/// Operator access to alerts: list, show, acknowledge, resolve, silence. Every change is a row in
+/// Operator access to alerts: list, show, acknowledge, resolve, resend. Every change is a row in
 /// <c>modelwatch.alert_event</c> with its actor and time; a human resolution also resets the alert policy's memory
-/// for that (model, check, subject), so new evidence opens a fresh alert (transition <c>reopened</c>).
+/// for that (model, check, subject), so new evidence opens a new alert that names this one as its predecessor.
+/// Acknowledge and resolve are idempotent: asking for a state the alert already has (or is past) changes nothing.
 /// </summary>
-public sealed class AlertRepository(NpgsqlDataSource dataSource, TimeSpan commandTimeout)
+public sealed class AlertRepository(NpgsqlDataSource dataSource, TimeSpan commandTimeout, TimeProvider? time = null)
 {
+    // Opening evidence: the alert's first event. Latest evidence: the alert's own finding in its last run (for a
+    // resolved alert, the resolving one), else — when that run was pruned — the last event that carried a statistic.
     private const string SelectSql = """
         SELECT a.id AS Id, a.model_key AS Model, a.check_name AS "Check", a.subject AS Subject, a.severity AS Severity, a.state AS State,
                a.opened_at AS OpenedAt, a.opened_by AS OpenedBy, a.acknowledged_at AS AcknowledgedAt, a.acknowledged_by AS AcknowledgedBy,
                a.resolved_at AS ResolvedAt, a.resolved_by AS ResolvedBy, a.first_run_id AS FirstRunId, a.last_run_id AS LastRunId, a.note AS Note,
-               e.statistic AS Statistic, e.value AS Value, e.threshold AS Threshold, e.explanation AS Explanation
+               a.previous_alert_id AS PreviousAlertId, a.baseline_version AS BaselineVersion,
+               COALESCE(o.severity, a.severity) AS OpeningSeverity, o.statistic AS OpeningStatistic, o.value AS OpeningValue,
+               o.threshold AS OpeningThreshold, o.p_value AS OpeningPValue, COALESCE(o.explanation, '') AS OpeningExplanation,
+               f.severity AS LatestSeverity,
+               COALESCE(f.statistic, e.statistic) AS Statistic, CASE WHEN f.statistic IS NULL THEN e.value ELSE f.value END AS Value,
+               CASE WHEN f.statistic IS NULL THEN e.threshold ELSE f.threshold END AS Threshold,
+               CASE WHEN f.statistic IS NULL THEN e.p_value ELSE f.p_value END AS PValue,
+               COALESCE(f.explanation, e.explanation) AS Explanation,
+               q.until AS QuietUntil
           FROM modelwatch.alert a
-          LEFT JOIN LATERAL (SELECT statistic, value, threshold, explanation FROM modelwatch.alert_event
+          LEFT JOIN LATERAL (SELECT severity, statistic, value, threshold, p_value, explanation FROM modelwatch.alert_event
+                              WHERE alert_id = a.id ORDER BY id LIMIT 1) o ON true
+          LEFT JOIN LATERAL (SELECT severity, statistic, value, threshold, p_value, explanation FROM modelwatch.finding
+                              WHERE run_id = a.last_run_id AND check_name = a.check_name AND subject IS NOT DISTINCT FROM a.subject
+                              ORDER BY CASE severity WHEN 'critical' THEN 2 WHEN 'warning' THEN 1 ELSE 0 END DESC, id LIMIT 1) f ON true
+          LEFT JOIN LATERAL (SELECT statistic, value, threshold, p_value, explanation FROM modelwatch.alert_event
                               WHERE alert_id = a.id AND statistic IS NOT NULL ORDER BY id DESC LIMIT 1) e ON true
+          LEFT JOIN LATERAL (SELECT max(until) AS until FROM modelwatch.quiet_period
+                              WHERE model_key = a.model_key AND (check_name IS NULL OR check_name = a.check_name)
+                                AND ended_at IS NULL AND until > @now) q ON true
         """;
 
     /// <summary>Alerts, newest first; <paramref name="state"/> <c>unresolved</c> means open or acknowledged.</summary>
@@ -32,7 +51,7 @@ public sealed class AlertRepository(NpgsqlDataSource dataSource, TimeSpan comman
                  ORDER BY a.opened_at DESC, a.id DESC
                  LIMIT @limit
                 """,
-            new { model, state, limit },
+            new { model, state, limit, now = Now },
             commandTimeout: Seconds,
             cancellationToken: cancellationToken));
         return rows.ToList();
@@ -42,7 +61,7 @@ public sealed class AlertRepository(NpgsqlDataSource dataSource, TimeSpan comman
     public async Task<AlertView?> GetAsync(long id, CancellationToken cancellationToken)
     {
         await using NpgsqlConnection connection = await dataSource.OpenConnectionAsync(cancellationToken);
-        return await connection.QuerySingleOrDefaultAsync<AlertView>(new CommandDefinition(SelectSql + " WHERE a.id = @id", new { id }, commandTimeout: Seconds, cancellationToken: cancellationToken));
+        return await connection.QuerySingleOrDefaultAsync<AlertView>(new CommandDefinition(SelectSql + " WHERE a.id = @id", new { id, now = Now }, commandTimeout: Seconds, cancellationToken: cancellationToken));
     }
 
     /// <summary>The alert's transitions, oldest first.</summary>
@@ -75,17 +94,17 @@ public sealed class AlertRepository(NpgsqlDataSource dataSource, TimeSpan comman
         return rows;
     }
 
-    /// <summary>Acknowledges an open alert. Returns the problem, or null on success.</summary>
-    public Task<string?> AcknowledgeAsync(long id, string actor, string? note, DateTimeOffset now, CancellationToken cancellationToken) =>
-        TransitionAsync(id, "acknowledged", ["open"], actor, note, now, cancellationToken);
+    /// <summary>Acknowledges an open alert; an acknowledged or resolved one is left as it is.</summary>
+    public Task<AlertChange> AcknowledgeAsync(long id, string actor, string? note, DateTimeOffset now, CancellationToken cancellationToken) =>
+        TransitionAsync(id, "acknowledged", actor, note, now, cancellationToken);
 
-    /// <summary>Resolves an open or acknowledged alert. Returns the problem, or null on success.</summary>
-    public Task<string?> ResolveAsync(long id, string actor, string? note, DateTimeOffset now, CancellationToken cancellationToken) =>
-        TransitionAsync(id, "resolved", ["open", "acknowledged"], actor, note, now, cancellationToken);
+    /// <summary>Resolves an open or acknowledged alert; a resolved one is left as it is.</summary>
+    public Task<AlertChange> ResolveAsync(long id, string actor, string? note, DateTimeOffset now, CancellationToken cancellationToken) =>
+        TransitionAsync(id, "resolved", actor, note, now, cancellationToken);
 
     /// <summary>
     /// Queues again the notifications that failed or were skipped — of one alert, or created since a time — optionally
-    /// only to one target; the dispatcher applies its rules afresh (a silence still in force skips them again).
+    /// only to one target; the dispatcher applies its rules afresh (a quiet period still in force holds them again).
     /// Returns how many were queued.
     /// </summary>
     public async Task<int> ResendAsync(long? alertId, DateTimeOffset? since, string? target, CancellationToken cancellationToken)
@@ -95,7 +114,7 @@ public sealed class AlertRepository(NpgsqlDataSource dataSource, TimeSpan comman
             """
             UPDATE modelwatch.notification
                SET state = 'pending', detail = NULL, finished_at = NULL, lease_owner = NULL, lease_expires_at = NULL
-             WHERE state IN ('failed', 'skipped')
+             WHERE state IN ('failed', 'skipped', 'held')
                AND (@alertId::bigint IS NULL OR alert_id = @alertId::bigint)
                AND (@since::timestamptz IS NULL OR created_at >= @since::timestamptz)
                AND (@target::text IS NULL OR target = @target::text)
@@ -105,35 +124,34 @@ public sealed class AlertRepository(NpgsqlDataSource dataSource, TimeSpan comman
             cancellationToken: cancellationToken));
     }
 
-    /// <summary>Silences notifications for a model (or one of its checks) until a time; runs go on.</summary>
-    public async Task<long> SilenceAsync(string model, string? check, DateTimeOffset until, string reason, string actor, DateTimeOffset now, CancellationToken cancellationToken)
-    {
-        await using NpgsqlConnection connection = await dataSource.OpenConnectionAsync(cancellationToken);
-        return await connection.QuerySingleAsync<long>(new CommandDefinition(
-            """
-            INSERT INTO modelwatch.quiet_period (model_key, check_name, until, reason, created_by, created_at)
-            VALUES (@model, @check, @until, @reason, @actor, @now) RETURNING id
-            """,
-            new { model, check, until, reason, actor, now },
-            commandTimeout: Seconds,
-            cancellationToken: cancellationToken));
-    }
-
-    private async Task<string?> TransitionAsync(long id, string target, string[] from, string actor, string? note, DateTimeOffset now, CancellationToken cancellationToken)
+    private async Task<AlertChange> TransitionAsync(long id, string target, string actor, string? note, DateTimeOffset now, CancellationToken cancellationToken)
     {
         await using NpgsqlConnection connection = await dataSource.OpenConnectionAsync(cancellationToken);
         await using NpgsqlTransaction transaction = await connection.BeginTransactionAsync(cancellationToken);
         CommandDefinition Command(string sql, object args) => new(sql, args, transaction, Seconds, cancellationToken: cancellationToken);
-        var current = await connection.QuerySingleOrDefaultAsync<(string ModelKey, string CheckName, string? Subject, string Severity, string State)?>(Command(
-            "SELECT model_key, check_name, subject, severity, state FROM modelwatch.alert WHERE id = @id FOR UPDATE", new { id }));
+        var current = await connection.QuerySingleOrDefaultAsync<CurrentAlert>(Command(
+            """
+            SELECT model_key AS ModelKey, check_name AS CheckName, subject AS Subject, severity AS Severity, state AS State,
+                   acknowledged_by AS AcknowledgedBy, acknowledged_at AS AcknowledgedAt, resolved_by AS ResolvedBy, resolved_at AS ResolvedAt
+              FROM modelwatch.alert WHERE id = @id FOR UPDATE
+            """,
+            new { id }));
         if (current is not { } alert)
         {
-            return $"alert {id} does not exist";
+            return new AlertChange(AlertChangeKind.NotFound, $"no alert #{id}");
         }
 
-        if (!from.Contains(alert.State))
+        if (alert.State == "resolved")
         {
-            return $"alert {id} is {alert.State}; only an alert that is {string.Join(" or ", from)} can be {target}";
+            string done = $"resolved by {alert.ResolvedBy} at {UtcText.Of(alert.ResolvedAt)}";
+            return new AlertChange(AlertChangeKind.AlreadyDone, target == "resolved"
+                ? $"alert #{id} already {done}"
+                : $"alert #{id} is already {done}; nothing to acknowledge");
+        }
+
+        if (target == "acknowledged" && alert.State == "acknowledged")
+        {
+            return new AlertChange(AlertChangeKind.AlreadyDone, $"alert #{id} already acknowledged by {alert.AcknowledgedBy} at {UtcText.Of(alert.AcknowledgedAt)}");
         }
 
         string column = target == "acknowledged" ? "acknowledged" : "resolved";
@@ -148,17 +166,34 @@ public sealed class AlertRepository(NpgsqlDataSource dataSource, TimeSpan comman
             new { id, target, severity = alert.Severity, actor, now, explanation = note ?? $"{target} by {actor}" }));
         if (target == "resolved")
         {
-            await connection.ExecuteAsync(Command(
-                """
-                UPDATE modelwatch.alert_policy_state
-                   SET state = state || '{"open": false, "recent": [], "consecutive_ok": 0}'::jsonb, updated_at = @now
-                 WHERE model_key = @model AND check_name = @check AND subject IS NOT DISTINCT FROM @subject
-                """,
-                new { model = alert.ModelKey, check = alert.CheckName, subject = alert.Subject, now }));
+await AlertPolicyMemory.ResetAsync(connection, transaction, Seconds, alert.ModelKey, alert.CheckName, alert.Subject, now, cancellationToken);
         }
 
         await transaction.CommitAsync(cancellationToken);
-        return null;
+        return new AlertChange(AlertChangeKind.Changed, $"alert #{id} {target} by {actor}");
+    }
+
+    private DateTimeOffset Now => (time ?? TimeProvider.System).GetUtcNow();
+
+    private sealed class CurrentAlert
+    {
+        public string ModelKey { get; set; } = string.Empty;
+
+        public string CheckName { get; set; } = string.Empty;
+
+        public string? Subject { get; set; }
+
+        public string Severity { get; set; } = string.Empty;
+
+        public string State { get; set; } = string.Empty;
+
+        public string? AcknowledgedBy { get; set; }
+
+        public DateTime? AcknowledgedAt { get; set; }
+
+        public string? ResolvedBy { get; set; }
+
+        public DateTime? ResolvedAt { get; set; }
     }
 
     private int Seconds => (int)Math.Ceiling(commandTimeout.TotalSeconds);

@@ -1,6 +1,9 @@
 namespace ModelWatch.Daemon.Alerts;
 
-/// <summary>An alert as operators see it: its state, who moved it, and the latest evidence.</summary>
+/// <summary>
+/// An alert as operators see it: its state, who moved it, the evidence it opened with and, separately, the latest
+/// evidence (the finding of its last run, which for a resolved alert is the resolving one).
+/// </summary>
 public sealed class AlertView
 {
     /// <summary>The alert id.</summary>
@@ -36,7 +39,7 @@ public sealed class AlertView
     /// <summary>When it was resolved (UTC), if it was.</summary>
     public DateTime? ResolvedAt { get; set; }
 
-    /// <summary>Who resolved it (a person, or <c>daemon:&lt;worker&gt;</c> by the policy's hysteresis).</summary>
+    /// <summary>Who resolved it (see <see cref="Actors"/>: a person, or a daemon replica by the policy's hysteresis).</summary>
     public string? ResolvedBy { get; set; }
 
     /// <summary>The run that opened it.</summary>
@@ -47,6 +50,39 @@ public sealed class AlertView
 
     /// <summary>The latest operator note.</summary>
     public string? Note { get; set; }
+
+    /// <summary>The alert this one follows (same model, check and subject, resolved before this one opened), or null.</summary>
+    public long? PreviousAlertId { get; set; }
+
+    /// <summary>The baseline version the alert was raised against, or null when not known.</summary>
+    public int? BaselineVersion { get; set; }
+
+    /// <summary>The severity the alert opened with.</summary>
+    public string OpeningSeverity { get; set; } = string.Empty;
+
+    /// <summary>The statistic of the opening evidence.</summary>
+    public string? OpeningStatistic { get; set; }
+
+    /// <summary>Its value.</summary>
+    public double? OpeningValue { get; set; }
+
+    /// <summary>Its threshold.</summary>
+    public double? OpeningThreshold { get; set; }
+
+    /// <summary>Its p-value, where the test has one.</summary>
+    public double? OpeningPValue { get; set; }
+
+    /// <summary>The opening explanation.</summary>
+    public string OpeningExplanation { get; set; } = string.Empty;
+
+    /// <summary>The severity of the latest evidence (<c>ok</c> once the condition has cleared), or null when its run was pruned.</summary>
+    public string? LatestSeverity { get; set; }
+
+    /// <summary>The latest evidence's p-value, where the test has one.</summary>
+    public double? PValue { get; set; }
+
+    /// <summary>The end of the quiet period holding this alert's notifications now, or null.</summary>
+    public DateTime? QuietUntil { get; set; }
 
     /// <summary>Statistic of the latest evidence.</summary>
     public string? Statistic { get; set; }

@@ -121,7 +121,7 @@ public sealed class RunRecorder(NpgsqlDataSource state, TimeSpan commandTimeout)
         var transitions = new List<AlertEvent>();
         foreach (AlertDecision decision in outcome.Decisions.Where(d => d.Action != AlertAction.None))
         {
-            AlertEvent? transition = await AlertTransitions.ApplyAsync(connection, transaction, Seconds, outcome.ModelKey, decision, runId.Value, "daemon:" + worker, now, cancellationToken);
+            AlertEvent? transition = await AlertTransitions.ApplyAsync(connection, transaction, Seconds, outcome.ModelKey, decision, runId.Value, Actors.OfWorker(worker), now, cancellationToken);
             if (transition is not null)
             {
                 transitions.Add(transition);

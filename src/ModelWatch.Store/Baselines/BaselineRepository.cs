@@ -8,7 +8,8 @@ namespace ModelWatch.Store.Baselines;
 /// <summary>
 /// Versioned baselines in the state database: typed core columns (origin, design, coefficients by term, n,
 /// residual SD, condition number) beside the whole <see cref="BaselineReference"/> as a jsonb document, so the
-/// checks can add a statistic without a migration. Versions only grow; the newest is the current one.
+/// checks can add a statistic without a migration. Versions only grow; the current one is the model's active version
+/// (<c>modelwatch.model.active_baseline_version</c>) when set, else the newest.
 /// </summary>
 public sealed class BaselineRepository
 {
@@ -26,23 +27,67 @@ public sealed class BaselineRepository
         _timeoutSeconds = (int)Math.Ceiling(commandTimeout.TotalSeconds);
     }
 
-    /// <summary>Stores <paramref name="reference"/> as the model's next version and returns that version.</summary>
+    /// <summary>
+    /// Stores <paramref name="reference"/> as the model's next version, makes it the active one and returns that version.
+    /// Alerts raised against the previous baseline are left as they are; the daemon's <c>BaselineActivation</c> stores a
+    /// baseline and supersedes them in one transaction.
+    /// </summary>
     public async Task<int> AddAsync(string modelKey, BaselineReference reference, (DateTimeOffset Start, DateTimeOffset End)? referenceWindow, string createdBy, CancellationToken cancellationToken)
     {
+        await using NpgsqlConnection connection = await _state.OpenConnectionAsync(cancellationToken);
+        await using NpgsqlTransaction transaction = await connection.BeginTransactionAsync(cancellationToken);
+        _ = await LockModelAsync(connection, transaction, modelKey, cancellationToken)
+            ?? throw new BaselineException($"model {modelKey}: no such model; apply its spec first ('modelwatch model apply')");
+        int version = await InsertAsync(connection, transaction, modelKey, reference, referenceWindow, createdBy, cancellationToken);
+        await SetActiveAsync(connection, transaction, modelKey, version, cancellationToken);
+        await transaction.CommitAsync(cancellationToken);
+        return version;
+    }
+
+    /// <summary>
+    /// Locks the model's row for the rest of <paramref name="transaction"/> (so baseline writers and activations of one
+    /// model are serialised and versions never collide) and returns its baseline versions, or null when no model has
+    /// that key.
+    /// </summary>
+    public Task<BaselineVersions?> LockModelAsync(NpgsqlConnection connection, NpgsqlTransaction transaction, string modelKey, CancellationToken cancellationToken) =>
+        ReadVersionsAsync(connection, transaction, modelKey, " FOR UPDATE", cancellationToken);
+
+    /// <summary>The model's baseline versions and which one is active, or null when no model has that key.</summary>
+    public async Task<BaselineVersions?> VersionsAsync(string modelKey, CancellationToken cancellationToken)
+    {
+        await using NpgsqlConnection connection = await _state.OpenConnectionAsync(cancellationToken);
+        await using NpgsqlTransaction transaction = await connection.BeginTransactionAsync(cancellationToken);
+        BaselineVersions? versions = await ReadVersionsAsync(connection, transaction, modelKey, string.Empty, cancellationToken);
+        await transaction.CommitAsync(cancellationToken);
+        return versions;
+    }
+
+    private async Task<BaselineVersions?> ReadVersionsAsync(NpgsqlConnection connection, NpgsqlTransaction transaction, string modelKey, string lockClause, CancellationToken cancellationToken)
+    {
+        ArgumentNullException.ThrowIfNull(connection);
+        var model = (await connection.QueryAsync<(string Key, int? Pinned)>(new CommandDefinition(
+            "SELECT key, active_baseline_version FROM modelwatch.model WHERE key = @modelKey" + lockClause,
+            new { modelKey }, transaction, _timeoutSeconds, cancellationToken: cancellationToken))).ToList();
+        if (model.Count == 0)
+        {
+            return null;
+        }
+
+        int[] versions = [.. await connection.QueryAsync<int>(new CommandDefinition(
+            "SELECT version FROM modelwatch.baseline WHERE model_key = @modelKey ORDER BY version",
+            new { modelKey }, transaction, _timeoutSeconds, cancellationToken: cancellationToken))];
+        return new BaselineVersions(versions, model[0].Pinned);
+    }
+
+    /// <summary>Inserts the model's next version inside <paramref name="transaction"/>, whose caller holds the model's lock.</summary>
+    public async Task<int> InsertAsync(
+        NpgsqlConnection connection, NpgsqlTransaction transaction, string modelKey, BaselineReference reference, (DateTimeOffset Start, DateTimeOffset End)? referenceWindow, string createdBy, CancellationToken cancellationToken)
+    {
+        ArgumentNullException.ThrowIfNull(connection);
         ArgumentNullException.ThrowIfNull(reference);
         ArgumentException.ThrowIfNullOrWhiteSpace(createdBy);
         var layout = reference.ToLayout();
-        await using NpgsqlConnection connection = await _state.OpenConnectionAsync(cancellationToken);
-        await using NpgsqlTransaction transaction = await connection.BeginTransactionAsync(cancellationToken);
         CommandDefinition Command(string sql, object? args) => new(sql, args, transaction, _timeoutSeconds, cancellationToken: cancellationToken);
-
-        // Locking the model row serialises concurrent baseline writers of one model, so versions never collide.
-        bool exists = (await connection.QueryAsync<string>(Command("SELECT key FROM modelwatch.model WHERE key = @modelKey FOR UPDATE", new { modelKey }))).Any();
-        if (!exists)
-        {
-            throw new BaselineException($"model {modelKey}: no such model; apply its spec first ('modelwatch model apply')");
-        }
-
         int version = await connection.ExecuteScalarAsync<int>(Command(
             "SELECT COALESCE(MAX(version), 0) + 1 FROM modelwatch.baseline WHERE model_key = @modelKey", new { modelKey }));
         await connection.ExecuteAsync(Command(
@@ -76,13 +121,31 @@ public sealed class BaselineRepository
                 CreatedAt = _time.GetUtcNow().UtcDateTime,
                 createdBy,
             }));
-        await transaction.CommitAsync(cancellationToken);
         return version;
     }
 
-    /// <summary>The model's newest baseline, or null when it has none.</summary>
+    /// <summary>Makes <paramref name="version"/> the one the model is watched against, inside <paramref name="transaction"/>.</summary>
+    public async Task SetActiveAsync(NpgsqlConnection connection, NpgsqlTransaction transaction, string modelKey, int version, CancellationToken cancellationToken)
+    {
+        ArgumentNullException.ThrowIfNull(connection);
+        await connection.ExecuteAsync(new CommandDefinition(
+            "UPDATE modelwatch.model SET active_baseline_version = @version, updated_at = @now WHERE key = @modelKey",
+            new { modelKey, version, now = _time.GetUtcNow().UtcDateTime }, transaction, _timeoutSeconds, cancellationToken: cancellationToken));
+    }
+
+    /// <summary>
+    /// The baseline the model is watched against: the active version when one is set, else the newest; null when the
+    /// model has none.
+    /// </summary>
     public async Task<StoredBaseline?> GetCurrentAsync(string modelKey, CancellationToken cancellationToken) =>
-        FirstOrNull(await QueryAsync("WHERE model_key = @modelKey ORDER BY version DESC LIMIT 1", new { modelKey }, cancellationToken));
+        FirstOrNull(await QueryAsync(
+            """
+            WHERE model_key = @modelKey
+              AND version = COALESCE((SELECT active_baseline_version FROM modelwatch.model WHERE key = @modelKey),
+                                     (SELECT max(version) FROM modelwatch.baseline WHERE model_key = @modelKey))
+            """,
+            new { modelKey },
+            cancellationToken));
 
     /// <summary>One version of the model's baseline, or null.</summary>
     public async Task<StoredBaseline?> GetAsync(string modelKey, int version, CancellationToken cancellationToken) =>

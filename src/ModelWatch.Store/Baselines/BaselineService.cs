@@ -8,8 +8,9 @@ namespace ModelWatch.Store.Baselines;
 
 /// <summary>
 /// <c>baseline fit</c> and <c>baseline import</c>: read the reference window (if any) from the model's data source
-/// into a <see cref="BaselineBuilder"/>, complete the reference statistics and store them as a new version.
-/// Everything is read and computed before the single insert, so a failure stores nothing.
+/// into a <see cref="BaselineBuilder"/>, complete the reference statistics and store them as a new version, which becomes
+/// the active one. Everything is read and computed before the single insert, so a failure stores nothing. The
+/// <c>Prepare…</c> methods stop before storing, for callers that store in a transaction of their own.
 /// </summary>
 public sealed class BaselineService
 {
@@ -30,8 +31,20 @@ public sealed class BaselineService
         _builderOptions = builderOptions ?? new BaselineBuilderOptions();
     }
 
-    /// <summary>Fits a baseline on <c>[from, to)</c> and stores it; returns the stored version.</summary>
-    public async Task<StoredBaseline> FitAsync(string modelKey, DateTimeOffset from, DateTimeOffset to, string createdBy, CancellationToken cancellationToken)
+    /// <summary>Fits a baseline on <c>[from, to)</c>, stores it as the active version and returns it.</summary>
+    public async Task<StoredBaseline> FitAsync(string modelKey, DateTimeOffset from, DateTimeOffset to, string createdBy, CancellationToken cancellationToken) =>
+        await StoreAsync(await PrepareFitAsync(modelKey, from, to, cancellationToken), createdBy, cancellationToken);
+
+    /// <summary>
+    /// Imports coefficients from <paramref name="json"/> (read from <paramref name="file"/>), stores them as the active
+    /// version and returns it; when a reference window is given, its rows complete the reference statistics (bins,
+    /// residual sample, leverage, factor).
+    /// </summary>
+    public async Task<StoredBaseline> ImportAsync(string modelKey, string file, string json, (DateTimeOffset From, DateTimeOffset To)? window, string createdBy, CancellationToken cancellationToken) =>
+        await StoreAsync(await PrepareImportAsync(modelKey, file, json, window, cancellationToken), createdBy, cancellationToken);
+
+    /// <summary>Reads <c>[from, to)</c> and fits a baseline on it without storing anything.</summary>
+    public async Task<PreparedBaseline> PrepareFitAsync(string modelKey, DateTimeOffset from, DateTimeOffset to, CancellationToken cancellationToken)
     {
         ModelSpec spec = await SpecAsync(modelKey, cancellationToken);
         BaselineSink sink = await ReadAsync(spec, from, to, cancellationToken);
@@ -45,14 +58,11 @@ public sealed class BaselineService
             throw new BaselineException($"model {modelKey}: cannot fit a baseline on [{from:yyyy-MM-ddTHH:mm:ssZ}, {to:yyyy-MM-ddTHH:mm:ssZ}): {ex.Message}", ex);
         }
 
-        return await StoreAsync(spec, reference, (from, to), createdBy, cancellationToken);
+        return new PreparedBaseline(spec, reference, (from, to));
     }
 
-    /// <summary>
-    /// Imports coefficients from <paramref name="json"/> (read from <paramref name="file"/>); when a reference window is
-    /// given, its rows complete the reference statistics (bins, residual sample, leverage, factor).
-    /// </summary>
-    public async Task<StoredBaseline> ImportAsync(string modelKey, string file, string json, (DateTimeOffset From, DateTimeOffset To)? window, string createdBy, CancellationToken cancellationToken)
+    /// <summary>Parses an import file and completes its statistics from the reference window (if any) without storing anything.</summary>
+    public async Task<PreparedBaseline> PrepareImportAsync(string modelKey, string file, string json, (DateTimeOffset From, DateTimeOffset To)? window, CancellationToken cancellationToken)
     {
         ModelSpec spec = await SpecAsync(modelKey, cancellationToken);
         ImportedCoefficients imported = BaselineImportFile.Parse(file, json, spec.Layout);
@@ -69,7 +79,7 @@ public sealed class BaselineService
             throw new BaselineException($"model {modelKey}: cannot import {file}: {ex.Message}", ex);
         }
 
-        return await StoreAsync(spec, reference, window is { } r ? (r.From, r.To) : null, createdBy, cancellationToken);
+        return new PreparedBaseline(spec, reference, window is { } r ? (r.From, r.To) : null);
     }
 
     private async Task<ModelSpec> SpecAsync(string modelKey, CancellationToken cancellationToken) =>
@@ -89,10 +99,11 @@ public sealed class BaselineService
         return result.Sink;
     }
 
-    private async Task<StoredBaseline> StoreAsync(ModelSpec spec, BaselineReference reference, (DateTimeOffset, DateTimeOffset)? window, string createdBy, CancellationToken cancellationToken)
+    private async Task<StoredBaseline> StoreAsync(PreparedBaseline prepared, string createdBy, CancellationToken cancellationToken)
     {
-        int version = await _baselines.AddAsync(spec.Key, reference, window, createdBy, cancellationToken);
-        return await _baselines.GetAsync(spec.Key, version, cancellationToken)
-            ?? throw new BaselineException($"model {spec.Key}: baseline version {version} was stored but cannot be read back");
+        string key = prepared.Spec.Key;
+        int version = await _baselines.AddAsync(key, prepared.Reference, prepared.ReferenceWindow, createdBy, cancellationToken);
+        return await _baselines.GetAsync(key, version, cancellationToken)
+            ?? throw new BaselineException($"model {key}: baseline version {version} was stored but cannot be read back");
     }
 }

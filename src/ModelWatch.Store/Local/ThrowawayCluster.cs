@@ -28,7 +28,26 @@ public sealed class ThrowawayCluster : IAsyncDisposable
     /// <summary>Connection string for the superuser <c>postgres</c> to the <c>postgres</c> database.</summary>
     public string ConnectionString => $"Host=127.0.0.1;Port={Port};Username=postgres;Database=postgres;Timeout=15;GSS Encryption Mode=Disable";
 
+    /// <summary>The folder holding the cluster's data, socket and log; removed when the cluster is disposed.</summary>
+    public string Root => _root;
+
+    /// <summary>The folder of the PostgreSQL binaries the cluster was started with.</summary>
+    public string BinDirectory => _binDirectory;
+
+    /// <summary>The postmaster's process id, from its pid file, or null when the server is not running.</summary>
+    public int? ServerProcessId =>
+        File.Exists(Path.Combine(DataDirectory, "postmaster.pid"))
+        && int.TryParse(File.ReadLines(Path.Combine(DataDirectory, "postmaster.pid")).FirstOrDefault(), System.Globalization.NumberStyles.Integer, System.Globalization.CultureInfo.InvariantCulture, out int pid)
+            ? pid
+            : null;
+
     private string DataDirectory => Path.Combine(_root, "data");
+
+    /// <summary>
+    /// A cluster an earlier process started and left running (the demo's <c>--keep</c>), found again by its folder, so
+    /// that disposing it stops the server and removes the folder.
+    /// </summary>
+    public static ThrowawayCluster Attach(string binDirectory, string root, int port) => new(binDirectory, root, port) { _running = true };
 
     /// <summary>Finds the folder holding <c>initdb</c> and <c>pg_ctl</c>: PATH first, then the newest /usr/lib/postgresql/*/bin.</summary>
     public static string? FindBinaries()

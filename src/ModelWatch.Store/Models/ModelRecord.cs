@@ -2,7 +2,7 @@ using ModelWatch.Store.Specs;
 
 namespace ModelWatch.Store.Models;
 
-/// <summary>A registered model as the state database holds it, with its current baseline (if any).</summary>
+/// <summary>A registered model as the state database holds it, with its current baseline (if any): the active version when one is set, else the newest.</summary>
 public sealed record ModelRecord(
     ModelSpec Spec,
     bool Enabled,
@@ -26,5 +26,5 @@ public sealed record ModelRecord(
         ? "no baseline: run 'modelwatch baseline fit' or 'modelwatch baseline import'"
         : HasCompatibleBaseline
             ? null
-            : $"baseline version {BaselineVersion} was made for '{BaselineDesignSignature}' but the spec now says '{Spec.DesignSignature}'; store a new baseline";
+            : $"baseline version {BaselineVersion} was made for '{BaselineDesignSignature}' but the spec now says '{Spec.DesignSignature}'; store a new baseline or activate one made for this design ('modelwatch baseline activate')";
 }

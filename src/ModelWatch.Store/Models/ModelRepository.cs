@@ -14,7 +14,8 @@ public sealed class ModelRepository
                b.version AS BaselineVersion, b.design_signature AS BaselineDesignSignature
         FROM modelwatch.model m
         LEFT JOIN LATERAL (SELECT version, design_signature FROM modelwatch.baseline
-                           WHERE model_key = m.key ORDER BY version DESC LIMIT 1) b ON true
+                           WHERE model_key = m.key AND (m.active_baseline_version IS NULL OR version = m.active_baseline_version)
+                           ORDER BY version DESC LIMIT 1) b ON true
         """;
 
     private readonly NpgsqlDataSource _state;
@@ -80,7 +81,11 @@ public sealed class ModelRepository
             }
 
             string? baselineDesign = await connection.QuerySingleOrDefaultAsync<string?>(Command(
-                "SELECT design_signature FROM modelwatch.baseline WHERE model_key = @key ORDER BY version DESC LIMIT 1", new { key = spec.Key }));
+                """
+                SELECT b.design_signature FROM modelwatch.baseline b JOIN modelwatch.model m ON m.key = b.model_key
+                 WHERE b.model_key = @key AND (m.active_baseline_version IS NULL OR b.version = m.active_baseline_version)
+                 ORDER BY b.version DESC LIMIT 1
+                """, new { key = spec.Key }));
             string? note = baselineDesign is null
                 ? "no baseline yet; runs are skipped until one is fitted or imported"
                 : baselineDesign != spec.DesignSignature

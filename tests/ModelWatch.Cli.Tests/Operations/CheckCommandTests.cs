@@ -68,8 +68,10 @@ public sealed class CheckCommandTests(PostgresDatabase database) : IClassFixture
     [Fact]
     public async Task A_window_without_rows_is_skipped_and_the_quiet_source_is_a_warning()
     {
-        CliRun run = await Check("--at", "2026-03-01T00:00:00Z", "--format", "json", "--fail-on", "warning");
-        CliRun critical = await Check("--at", "2026-03-01T00:00:00Z", "--fail-on", "critical");
+        // The rows end at 2026-02-03T00:00; the 01:00 window holds only rows the 00:00 window has read, so the 02:00
+        // window is the second run in a row without new rows.
+        CliRun run = await Check("--at", "2026-02-03T02:00:00Z", "--format", "json", "--fail-on", "warning");
+        CliRun critical = await Check("--at", "2026-02-03T02:00:00Z", "--fail-on", "critical");
 
         Assert.Equal(ExitCodes.Findings, run.ExitCode);
         Assert.Equal(ExitCodes.Ok, critical.ExitCode);
@@ -81,9 +83,20 @@ public sealed class CheckCommandTests(PostgresDatabase database) : IClassFixture
         JsonElement[] findings = [.. json.RootElement.GetProperty("findings").EnumerateArray()];
         Assert.Equal(["data", "source"], findings.Select(f => f.GetProperty("check").GetString()));
         Assert.Equal("quiet_source", findings[0].GetProperty("statistic").GetString());
+        Assert.Equal(2, findings[0].GetProperty("value").GetDouble());
         Assert.Equal("warning", findings[0].GetProperty("severity").GetString());
         Assert.Equal("ok", findings[1].GetProperty("severity").GetString());
         Assert.Contains("skipped tests: 7 insufficient_data", critical.Output, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public async Task A_source_quiet_for_weeks_before_the_slot_is_critical()
+    {
+        CliRun run = await Check("--at", "2026-03-01T00:00:00Z", "--fail-on", "critical");
+
+        // Every hourly slot from 2026-02-03T01:00 to 2026-03-01T00:00 brought no new rows: 26 days × 24 = 624 runs.
+        Assert.Equal(ExitCodes.Findings, run.ExitCode);
+        Assert.Contains("the data source brought no new usable rows for 624 runs in a row", run.Output, StringComparison.Ordinal);
     }
 
     [Fact]

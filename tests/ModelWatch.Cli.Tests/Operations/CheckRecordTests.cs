@@ -29,7 +29,7 @@ public sealed class CheckRecordTests(PostgresDatabase database) : IClassFixture<
         Assert.Equal(ExitCodes.Ok, second.ExitCode);
         Assert.Contains("slot 2026-02-02T15:00:00Z of model laundry-cycles was already recorded; nothing was written", second.Error, StringComparison.Ordinal);
         Assert.Equal("1", await Scalar("SELECT count(*) FROM modelwatch.run WHERE model_key = 'laundry-cycles'"));
-        Assert.Equal("2026-02-02T15:00:00Z|ok|cli:" + Environment.UserName,
+        Assert.Equal("2026-02-02T15:00:00Z|ok|" + ModelWatch.Daemon.Alerts.Actors.CheckRun,
             await Scalar("SELECT concat_ws('|', to_char(slot AT TIME ZONE 'UTC', 'YYYY-MM-DD\"T\"HH24:MI:SS\"Z\"'), status, worker_id) FROM modelwatch.run"));
         Assert.NotEqual("0", await Scalar("SELECT count(*) FROM modelwatch.finding"));
         Assert.NotEqual("0", await Scalar("SELECT count(*) FROM modelwatch.check_state WHERE model_key = 'laundry-cycles'"));

@@ -57,7 +57,7 @@ public sealed class StrictTimeTests
     [InlineData("baseline", "fit", "any-model", "--from", "01/12/2026", "--to", "2026-12-02T00:00:00Z")]
     [InlineData("check", "any-model", "--at", "0001-01-01T00:00:00Z")]
     [InlineData("backtest", "any-model", "--from", "2026-01-01T00:00:00Z", "--to", "9999-12-01T00:00:00Z")]
-    [InlineData("alerts", "silence", "any-model", "--until", "Dec 1", "--reason", "maintenance")]
+    [InlineData("quiet", "any-model", "--until", "Dec 1", "--reason", "maintenance")]
     [InlineData("alerts", "resend", "--since", "12:00")]
     public async Task Every_time_option_is_a_usage_error_before_anything_is_opened(params string[] args)
     {

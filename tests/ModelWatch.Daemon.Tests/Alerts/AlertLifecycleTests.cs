@@ -42,9 +42,11 @@ public sealed class AlertLifecycleTests(PostgresDatabase database) : IClassFixtu
         Assert.Contains(records, r => r.EventId.Name == "modelwatch.alert.opened");
 
         DateTimeOffset now = time.GetUtcNow();
-        Assert.Null(await alerts.AcknowledgeAsync(coefficients.Id, "oncall@example.test", "looking at the route data", now, CancellationToken.None));
-        Assert.NotNull(await alerts.AcknowledgeAsync(coefficients.Id, "oncall@example.test", null, now, CancellationToken.None));
-        Assert.Null(await alerts.ResolveAsync(coefficients.Id, "oncall@example.test", "re-baselined after the tariff change", now, CancellationToken.None));
+        Assert.Equal(AlertChangeKind.Changed, (await alerts.AcknowledgeAsync(coefficients.Id, "oncall@example.test", "looking at the route data", now, CancellationToken.None)).Kind);
+        Assert.Equal(AlertChangeKind.AlreadyDone, (await alerts.AcknowledgeAsync(coefficients.Id, "oncall@example.test", null, now, CancellationToken.None)).Kind);
+        Assert.Equal(AlertChangeKind.Changed, (await alerts.ResolveAsync(coefficients.Id, "oncall@example.test", "re-baselined after the tariff change", now, CancellationToken.None)).Kind);
+        Assert.Equal(AlertChangeKind.AlreadyDone, (await alerts.ResolveAsync(coefficients.Id, "someone-else", null, now, CancellationToken.None)).Kind);
+        Assert.Equal(AlertChangeKind.NotFound, (await alerts.ResolveAsync(987_654_321, "someone-else", null, now, CancellationToken.None)).Kind);
 
         AlertView resolved = (await alerts.GetAsync(coefficients.Id, CancellationToken.None))!;
         IReadOnlyList<AlertHistoryEntry> history = await alerts.HistoryAsync(coefficients.Id, CancellationToken.None);

@@ -33,7 +33,7 @@ public sealed class DurableNotificationTests(PostgresDatabase database) : IClass
         IReadOnlyList<AlertDecision> decisions = AlertPolicy.Evaluate([result], [], "fingerprint-1", new CheckThresholds());
         RecordedRun recorded = await DaemonTestData.RecordUnderLeaseAsync(database, "parcels-queued", slot, [result], decisions);
         var alerts = new AlertRepository(database.DataSource, DaemonTestData.CommandTimeout);
-        Assert.Null(await alerts.AcknowledgeAsync(recorded.Transitions[0].AlertId, "oncall@example.test", "on it", slot.AddMinutes(5), CancellationToken.None));
+        Assert.Equal(AlertChangeKind.Changed, (await alerts.AcknowledgeAsync(recorded.Transitions[0].AlertId, "oncall@example.test", "on it", slot.AddMinutes(5), CancellationToken.None)).Kind);
         const string Pending = "SELECT count(*) FROM modelwatch.notification n JOIN modelwatch.alert a ON a.id = n.alert_id WHERE a.model_key = 'parcels-queued' AND n.state = 'pending'";
         Assert.Equal(4, await DaemonTestData.ScalarAsync(database.DataSource, Pending));
 

@@ -10,14 +10,14 @@ public sealed class NotificationDeliveryTests(PostgresDatabase database) : IClas
     private const string Secret = "loopback-receiver-shared-secret";
 
     [Fact]
-    public async Task An_opened_alert_reaches_the_webhook_signed_and_a_silenced_model_sends_nothing()
+    public async Task An_opened_alert_reaches_the_webhook_signed_and_a_quiet_model_sends_nothing_but_records_each_held_notification()
     {
         await DaemonTestData.PrepareAsync(database, hours: 24 + 30, breakAtHour: 24 + 6);
         var time = new FakeTimeProvider(DaemonTestData.ReferenceEnd);
         await DaemonTestData.RegisterAsync(database, time, "parcels-paged", notify: "[pager, channel]");
         await DaemonTestData.RegisterAsync(database, time, "parcels-quiet", notify: "[pager]");
-        var alerts = new ModelWatch.Daemon.Alerts.AlertRepository(database.DataSource, DaemonTestData.CommandTimeout);
-        await alerts.SilenceAsync("parcels-quiet", null, DaemonTestData.ReferenceEnd.AddDays(30), "planned re-baseline", "test", time.GetUtcNow(), CancellationToken.None);
+        var quiet = new ModelWatch.Daemon.Alerts.QuietPeriodRepository(database.DataSource, DaemonTestData.CommandTimeout);
+        long period = await quiet.CreateAsync("parcels-quiet", null, DaemonTestData.ReferenceEnd.AddDays(30), "planned re-baseline", "person:test", time.GetUtcNow(), CancellationToken.None);
         using var pager = new LoopbackReceiver(500);
         using var channel = new LoopbackReceiver();
         await using var daemon = new DaemonInstance(database, time, "notifier", settings: new Dictionary<string, string?>
@@ -49,5 +49,14 @@ public sealed class NotificationDeliveryTests(PostgresDatabase database) : IClas
             "SELECT count(*) FROM modelwatch.notification_attempt WHERE target = 'pager' AND alert_id = (SELECT min(alert_id) FROM modelwatch.notification_attempt WHERE target = 'pager')"));
         Assert.True(await DaemonTestData.ScalarAsync(database.DataSource, "SELECT count(*) FROM modelwatch.alert WHERE model_key = 'parcels-quiet'") > 0);
         Assert.DoesNotContain(pager.Received.Concat(channel.Received), r => System.Text.Encoding.UTF8.GetString(r.Body).Contains("parcels-quiet", StringComparison.Ordinal));
+
+        // Runs and alerts went on; every notification of the quiet model was recorded as held, naming the period.
+        long held = await DaemonTestData.ScalarAsync(database.DataSource,
+            $"SELECT count(*) FROM modelwatch.notification n JOIN modelwatch.alert a ON a.id = n.alert_id WHERE a.model_key = 'parcels-quiet' AND n.state = 'held' AND n.detail = 'held by quiet period {period}'");
+        Assert.True(held > 0);
+        Assert.Equal(0, await DaemonTestData.ScalarAsync(database.DataSource,
+            "SELECT count(*) FROM modelwatch.notification n JOIN modelwatch.alert a ON a.id = n.alert_id WHERE a.model_key = 'parcels-quiet' AND n.state NOT IN ('held', 'pending')"));
+        ModelWatch.Daemon.Alerts.QuietPeriod listed = Assert.Single(await quiet.ListAsync(false, "parcels-quiet", time.GetUtcNow(), CancellationToken.None));
+        Assert.Equal(held, listed.Held);
     }
 }

@@ -52,6 +52,6 @@ public sealed class DatabaseRestartTests
             """));
         Assert.Equal(
             await DaemonTestData.ScalarAsync(source, "SELECT count(*) FROM modelwatch.alert WHERE model_key = 'parcels-restart'"),
-            await DaemonTestData.ScalarAsync(source, "SELECT count(*) FROM modelwatch.alert_event e JOIN modelwatch.alert a ON a.id = e.alert_id WHERE a.model_key = 'parcels-restart' AND e.transition IN ('opened', 'reopened')"));
+            await DaemonTestData.ScalarAsync(source, "SELECT count(*) FROM modelwatch.alert_event e JOIN modelwatch.alert a ON a.id = e.alert_id WHERE a.model_key = 'parcels-restart' AND e.transition = 'opened'"));
     }
 }
