@@ -38,7 +38,7 @@ internal sealed class EvidenceLoader(StoreDataSources databases, TimeSpan comman
         {
             Alert = alert,
             History = await alerts.HistoryAsync(alertId, cancellationToken),
-            PreviousAlertId = await _repository.PreviousAlertIdAsync(alertId, cancellationToken),
+            PreviousAlertId = alert.PreviousAlertId,
         };
         return readWindow ? await WithWindowResidualsAsync(evidence, cancellationToken) : evidence;
     }

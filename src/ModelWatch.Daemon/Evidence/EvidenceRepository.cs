@@ -6,9 +6,9 @@ using Npgsql;
 namespace ModelWatch.Daemon.Evidence;
 
 /// <summary>
-/// The state-database reads behind the evidence report and the web pages: an alert's evidence run, the alert before it,
-/// a run's model, and a model's recent runs with their findings. Alerts and runs have separate id sequences, so every
-/// read says which kind of id it takes.
+/// The state-database reads behind the evidence report and the web pages: an alert's evidence run, a run's model, and
+/// a model's recent runs with their findings. Alerts and runs have separate id sequences, so every read says which
+/// kind of id it takes.
 /// </summary>
 internal sealed class EvidenceRepository(NpgsqlDataSource state, TimeSpan commandTimeout)
 {
@@ -33,13 +33,6 @@ internal sealed class EvidenceRepository(NpgsqlDataSource state, TimeSpan comman
             """,
             new { model, check, subject, last = lastRunId },
             cancellationToken));
-    }
-
-    /// <summary>The alert of the same condition that was resolved before this one opened, or null.</summary>
-    public async Task<long?> PreviousAlertIdAsync(long alertId, CancellationToken cancellationToken)
-    {
-        await using NpgsqlConnection connection = await state.OpenConnectionAsync(cancellationToken);
-        return await connection.QuerySingleOrDefaultAsync<long?>(Command("SELECT previous_alert_id FROM modelwatch.alert WHERE id = @alertId", new { alertId }, cancellationToken));
     }
 
     /// <summary>The model of a run, or null when no run has the id.</summary>

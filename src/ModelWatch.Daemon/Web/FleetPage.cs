@@ -1,17 +1,18 @@
 using System.Globalization;
 using System.Text;
 using ModelWatch.Daemon.Evidence;
+using ModelWatch.Daemon.Fleet;
 
 namespace ModelWatch.Daemon.Web;
 
 /// <summary>The page at <c>/</c>: one row per model, the models that need someone first.</summary>
 internal static class FleetPage
 {
-    public static string Render(IReadOnlyList<FleetRow> rows, DateTimeOffset now)
+    public static string Render(IReadOnlyList<ModelStatus> rows, DateTimeOffset now)
     {
         StringBuilder html = PageLayout.Begin("ModelWatch: fleet");
         html.Append("<h1>Fleet</h1>");
-        int critical = rows.Count(r => r.OpenCritical > 0), failing = rows.Count(r => r.ConsecutiveFailedRuns > 0);
+        int critical = rows.Count(r => r.OpenCritical > 0), failing = rows.Count(r => r.FailingRuns > 0);
         html.Append("<p>").Append(Enc($"{Count(rows.Count, "model")}; {Count(critical, "model")} with open critical alerts; {Count(failing, "model")} whose last run failed. Page made {EvidenceFacts.Readable(now)}; read only."))
             .Append("</p>");
         if (rows.Count == 0)
@@ -22,20 +23,20 @@ internal static class FleetPage
 
         html.Append("<table class=\"rows\"><thead><tr><th>model</th><th>enabled</th><th>last run (UTC)</th><th>last run status</th><th>worst finding of last run</th>")
             .Append("<th>open alerts</th><th>quiet until (UTC)</th><th>baseline</th><th>failed runs in a row</th></tr></thead><tbody>");
-        foreach (FleetRow row in rows.OrderBy(Urgency).ThenBy(r => r.Key, StringComparer.Ordinal))
+        foreach (ModelStatus row in rows.OrderBy(Urgency).ThenBy(r => r.Key, StringComparer.Ordinal))
         {
             string key = Uri.EscapeDataString(row.Key);
             html.Append("<tr>");
             html.Append($"<td data-label=\"model\"><a href=\"/models/{key}\">{Enc(row.Key)}</a></td>");
             Cell(html, "enabled", row.Enabled ? "yes" : "no (paused)");
-            Cell(html, "last run (UTC)", row.LastRunSlot is { } at ? Short(at) : "never");
-            html.Append($"<td data-label=\"last run status\"><span class=\"sev {Enc(row.LastRunStatus)}\">{Enc(row.LastRunStatus ?? "-")}</span></td>");
+            Cell(html, "last run (UTC)", row.LastRunAt is { } at ? Short(at) : "never");
+            html.Append($"<td data-label=\"last run status\"><span class=\"sev {Enc(row.LastStatus)}\">{Enc(row.LastStatus ?? "-")}</span></td>");
             html.Append($"<td data-label=\"worst finding\"><span class=\"sev {Enc(row.WorstSeverity)}\">{Enc(row.WorstSeverity ?? "-")}</span></td>");
             string alerts = row.OpenCritical + row.OpenWarning == 0 ? "none" : $"{row.OpenCritical.ToString(CultureInfo.InvariantCulture)} critical, {row.OpenWarning.ToString(CultureInfo.InvariantCulture)} warning";
             html.Append($"<td data-label=\"open alerts\">{(row.OpenCritical > 0 ? "<span class=\"sev critical\">" + Enc(alerts) + "</span>" : Enc(alerts))}</td>");
-            Cell(html, "quiet until", row.QuietUntil is { } q ? Short(q) : "-");
+            Cell(html, "quiet until", row.QuietUntil is { } q ? Short(q) + (row.QuietPeriods > 1 ? $" ({row.QuietPeriods.ToString(CultureInfo.InvariantCulture)} periods)" : string.Empty) : "-");
             Cell(html, "baseline", row.BaselineVersion is { } v ? $"v{v.ToString(CultureInfo.InvariantCulture)}, {Age(row.BaselineCreatedAt, now)} old" : "none (runs are skipped)");
-            html.Append($"<td data-label=\"failed runs in a row\" class=\"num\">{(row.ConsecutiveFailedRuns > 0 ? "<span class=\"sev failed\">" + row.ConsecutiveFailedRuns.ToString(CultureInfo.InvariantCulture) + "</span>" : "0")}</td>");
+            html.Append($"<td data-label=\"failed runs in a row\" class=\"num\">{(row.FailingRuns > 0 ? "<span class=\"sev failed\">" + row.FailingRuns.ToString(CultureInfo.InvariantCulture) + "</span>" : "0")}</td>");
             html.Append("</tr>");
         }
 
@@ -44,7 +45,7 @@ internal static class FleetPage
         return PageLayout.End(html);
     }
 
-    private static int Urgency(FleetRow row) => row.OpenCritical > 0 ? 0 : row.ConsecutiveFailedRuns > 0 ? 1 : row.OpenWarning > 0 ? 2 : 3;
+    private static int Urgency(ModelStatus row) => row.OpenCritical > 0 ? 0 : row.FailingRuns > 0 ? 1 : row.OpenWarning > 0 ? 2 : 3;
 
     private static string Count(int n, string what) => n.ToString(CultureInfo.InvariantCulture) + " " + what + (n == 1 ? string.Empty : "s");
 

@@ -7,6 +7,7 @@ using Microsoft.Extensions.DependencyInjection;
 using Microsoft.Extensions.Logging;
 using ModelWatch.Daemon.Alerts;
 using ModelWatch.Daemon.Evidence;
+using ModelWatch.Daemon.Fleet;
 using ModelWatch.Daemon.Hosting;
 using ModelWatch.Daemon.Options;
 using ModelWatch.Store.Configuration;
@@ -79,7 +80,7 @@ internal static class WebPages
     {
         StoreDataSources databases = context.RequestServices.GetRequiredService<StoreDataSources>();
         TimeProvider time = context.RequestServices.GetRequiredService<TimeProvider>();
-        IReadOnlyList<FleetRow> rows = await new FleetQuery(databases.State, CommandTimeout).ReadAsync(cancellationToken);
+        IReadOnlyList<ModelStatus> rows = await new FleetStatusReader(databases.State, CommandTimeout).ReadAsync(time.GetUtcNow(), cancellationToken);
         return (StatusCodes.Status200OK, FleetPage.Render(rows, time.GetUtcNow()));
     }
 
