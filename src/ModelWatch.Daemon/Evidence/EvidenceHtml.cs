@@ -178,7 +178,7 @@ internal static class EvidenceHtml
         foreach (AlertHistoryEntry entry in history)
         {
             html.Append("<tr>")
-                .Append("<td data-label=\"when\" class=\"when\">").Append(Enc(Readable(entry.At))).Append("</td>").Append(Cell("what", entry.Transition)).Append(Cell("severity", entry.Severity))
+                .Append("<td data-label=\"when\" class=\"nowrap\">").Append(Enc(Readable(entry.At))).Append("</td>").Append(Cell("what", entry.Transition)).Append(Cell("severity", entry.Severity))
                 .Append(Cell("by", entry.Actor)).Append(Cell("run", entry.RunId is { } r ? "#" + Id(r) : "-")).Append(Cell("explanation", entry.Explanation))
                 .Append("</tr>");
         }

@@ -48,7 +48,7 @@ internal static class PageLayout
         .runbook dt { font-weight: 600; margin-top: 0.5rem; } .runbook dd { margin-left: 1rem; }
         table.rows { border-collapse: collapse; width: 100%; background: #fff; font-size: 0.9rem; }
         table.rows th, table.rows td { text-align: left; padding: 5px 8px; border-bottom: 1px solid #e6e0d4; vertical-align: top; overflow-wrap: break-word; }
-        table.rows td.when, table.rows th { white-space: nowrap; }
+        table.rows td.nowrap { white-space: nowrap; }
         details.more { margin: 0.4rem 0; } details.more summary { cursor: pointer; color: #174d78; }
         table.rows th { background: #ece7dc; font-weight: 600; }
         table.rows td.num { text-align: right; font-variant-numeric: tabular-nums; }
@@ -57,7 +57,6 @@ internal static class PageLayout
           main { padding: 8px 10px 32px; }
           svg .title { font-size: 24px; } svg .tick { font-size: 20px; } svg .axis-title { font-size: 20px; } svg .xtick.alt { display: none; }
           .sev { min-width: 0; }
-          table.rows th { white-space: normal; }
           table.rows:not(.small) thead { display: none; }
           table.rows:not(.small), table.rows:not(.small) tbody, table.rows:not(.small) tr, table.rows:not(.small) td { display: block; width: 100%; }
           table.rows:not(.small) tr { border: 1px solid #ddd6c8; border-radius: 6px; margin-bottom: 8px; background: #fff; }

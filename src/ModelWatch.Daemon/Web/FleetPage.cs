@@ -27,9 +27,9 @@ internal static class FleetPage
         {
             string key = Uri.EscapeDataString(row.Key);
             html.Append("<tr>");
-            html.Append($"<td data-label=\"model\"><a href=\"/models/{key}\">{Enc(row.Key)}</a></td>");
+            html.Append($"<td data-label=\"model\" class=\"nowrap\"><a href=\"/models/{key}\">{Enc(row.Key)}</a></td>");
             Cell(html, "enabled", row.Enabled ? "yes" : "no (paused)");
-            Cell(html, "last run (UTC)", row.LastRunAt is { } at ? Short(at) : "never");
+            html.Append($"<td data-label=\"last run (UTC)\" class=\"nowrap\">{Enc(row.LastRunAt is { } at ? Short(at) : "never")}</td>");
             html.Append($"<td data-label=\"last run status\"><span class=\"sev {Enc(row.LastStatus)}\">{Enc(row.LastStatus ?? "-")}</span></td>");
             html.Append($"<td data-label=\"worst finding\"><span class=\"sev {Enc(row.WorstSeverity)}\">{Enc(row.WorstSeverity ?? "-")}</span></td>");
             string alerts = row.OpenCritical + row.OpenWarning == 0 ? "none" : $"{row.OpenCritical.ToString(CultureInfo.InvariantCulture)} critical, {row.OpenWarning.ToString(CultureInfo.InvariantCulture)} warning";

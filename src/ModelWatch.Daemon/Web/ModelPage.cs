@@ -32,17 +32,21 @@ internal static class ModelPage
             {
                 string id = alert.Id.ToString(CultureInfo.InvariantCulture);
                 html.Append("<tr>")
-                    .Append($"<td data-label=\"alert\"><a href=\"/alerts/{id}\">#{id} evidence</a></td>")
+                    .Append($"<td data-label=\"alert\" class=\"nowrap\"><a href=\"/alerts/{id}\">#{id} evidence</a></td>")
                     .Append($"<td data-label=\"severity\"><span class=\"sev {Enc(alert.Severity)}\">{Enc(alert.Severity)}</span></td>")
                     .Append(Cell("check", $"{alert.Check} ({alert.Subject ?? "model"})"))
                     .Append(Cell("state", alert.State))
-                    .Append(Cell("opened", FleetPage.Short(alert.OpenedAt)))
+                    .Append($"<td data-label=\"opened\" class=\"nowrap\">{Enc(FleetPage.Short(alert.OpenedAt))}</td>")
                     .Append(Cell("latest evidence", alert.Explanation ?? "-"))
                     .Append("</tr>");
             }
 
             html.Append("</tbody></table>");
         }
+
+        IReadOnlyList<EvidenceChart> charts = EvidenceCharts.All(evidence);
+        html.Append("<h2>Charts over the recent runs</h2>");
+        html.Append(charts.Count == 0 ? "<p>Nothing to chart yet.</p>" : "<div class=\"charts\">" + string.Concat(charts.Select(c => c.Html)) + "</div>");
 
         html.Append("<h2>Recent runs</h2>");
         if (evidence.Runs.Count == 0)
@@ -51,14 +55,15 @@ internal static class ModelPage
         }
         else
         {
-            html.Append("<table class=\"rows\"><thead><tr><th>run</th><th>window end (UTC)</th><th>status</th><th>rows</th><th>worst finding</th><th>critical findings</th></tr></thead><tbody>");
+            html.Append("<table class=\"rows\"><thead><tr><th>run</th><th>window end (UTC)</th><th>status</th><th>rows</th><th>worst finding</th><th>critical findings by check</th></tr></thead><tbody>");
             foreach (EvidenceRun run in evidence.Runs.Reverse().Take(RunsShown))
             {
                 string worst = run.Findings.Any(f => f.Severity == "critical") ? "critical" : run.Findings.Any(f => f.Severity == "warning") ? "warning" : run.Findings.Count > 0 ? "ok" : "-";
-                string critical = string.Join("; ", run.Findings.Where(f => f.Severity == "critical").Select(f => $"{f.Check} {f.Statistic} ({f.SubjectText})").Distinct().Take(4));
+                string critical = string.Join(", ", run.Findings.Where(f => f.Severity == "critical").GroupBy(f => f.Check)
+                    .Select(g => g.Count() == 1 ? g.Key : $"{g.Key} ×{g.Count().ToString(CultureInfo.InvariantCulture)}"));
                 html.Append("<tr>")
                     .Append(Cell("run", "#" + run.Id.ToString(CultureInfo.InvariantCulture)))
-                    .Append(Cell("window end", run.At.UtcDateTime.ToString("yyyy-MM-dd HH:mm", CultureInfo.InvariantCulture)))
+                    .Append($"<td data-label=\"window end\" class=\"nowrap\">{run.At.UtcDateTime.ToString("yyyy-MM-dd HH:mm", CultureInfo.InvariantCulture)}</td>")
                     .Append($"<td data-label=\"status\"><span class=\"sev {Enc(run.Status)}\">{Enc(run.Status)}</span>{(run.Reason is { } why ? " " + Enc(why) : string.Empty)}</td>")
                     .Append($"<td data-label=\"rows\" class=\"num\">{run.RowsRead.ToString(CultureInfo.InvariantCulture)}</td>")
                     .Append($"<td data-label=\"worst finding\"><span class=\"sev {worst}\">{worst}</span></td>")
@@ -73,9 +78,6 @@ internal static class ModelPage
             }
         }
 
-        IReadOnlyList<EvidenceChart> charts = EvidenceCharts.All(evidence);
-        html.Append("<h2>Charts over the recent runs</h2>");
-        html.Append(charts.Count == 0 ? "<p>Nothing to chart yet.</p>" : "<div class=\"charts\">" + string.Concat(charts.Select(c => c.Html)) + "</div>");
         return PageLayout.End(html);
     }
 
