@@ -12,11 +12,11 @@ namespace ModelWatch.Daemon.Evidence;
 internal sealed class SvgChart(string title, string xTitle, string yTitle, double xMin, double xMax, double yMin, double yMax, bool logY = false)
 {
     private const double Width = 560;
-    private const double Height = 320;
+    private const double Height = 330;
     private const double Left = 62;
     private const double Right = 16;
     private const double Top = 50;
-    private const double Bottom = 66;
+    private const double Bottom = 74;
 
     private static readonly double[] NiceSteps = [1.0, 2.0, 2.5, 5.0, 10.0];
 

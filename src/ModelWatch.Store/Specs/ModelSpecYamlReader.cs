@@ -105,11 +105,7 @@ internal static class ModelSpecYamlReader
                 }
             }
 
-            if (column is null)
-            {
-                Fail("a mapping must name the outcome's column (column: NAME)");
-            }
-
+            // A mapping without column is reported once, by the validator, as a missing outcome.
             return (column, unit);
         }
 

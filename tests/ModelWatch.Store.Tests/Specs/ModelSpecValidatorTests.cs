@@ -80,6 +80,23 @@ public sealed class ModelSpecValidatorTests
     }
 
     [Fact]
+    public void An_outcome_may_name_its_unit_which_is_stored_and_changes_neither_the_design_nor_an_older_specs_hash()
+    {
+        ModelSpec plain = StoreTestData.Spec(Full);
+        ModelSpec withUnit = StoreTestData.Spec(Replace(Full, "outcome", "outcome: { column: loaves, unit: loaves per hour }"));
+
+        ModelSpec stored = ModelSpecValidator.FromStoredJson(withUnit.ToJson());
+
+        Assert.Null(plain.OutcomeUnit);
+        Assert.DoesNotContain("outcome_unit", plain.ToJson(), StringComparison.Ordinal);
+        Assert.Equal("loaves", withUnit.Outcome);
+        Assert.Equal("loaves per hour", withUnit.OutcomeUnit);
+        Assert.Equal("loaves per hour", stored.OutcomeUnit);
+        Assert.Equal(plain.DesignSignature, withUnit.DesignSignature);
+        Assert.Equal(withUnit.Sha256(), stored.Sha256());
+    }
+
+    [Fact]
     public void The_window_of_a_slot_ends_label_delay_before_it()
     {
         ModelSpec spec = StoreTestData.Spec(Full);
@@ -117,6 +134,9 @@ public sealed class ModelSpecValidatorTests
     [InlineData("query: \"SELECT * FROM sales WHERE note <> '@window_start' AND sold_at < @window_end\"", "query", "uses @window_start only inside a comment")]
     [InlineData("query: \"SELECT * FROM sales /* sold_at >= @window_start */ WHERE sold_at < @window_end\"", "query", "uses @window_start only inside a comment")]
     [InlineData("prediction_column: loaves", "prediction_column", "already the outcome")]
+    [InlineData("outcome: { column: loaves, unit: '' }", "outcome.unit", "1 to 32 printable characters")]
+    [InlineData("outcome: { column: loaves, units: each }", "outcome.units", "an outcome mapping has column and unit")]
+    [InlineData("outcome: { unit: loaves }", "outcome", "is required: a column name")]
     [InlineData("source: 'shop floor'", "source", "data source")]
     public void Each_invalid_field_is_reported_with_its_path(string replacement, string path, string message)
     {
