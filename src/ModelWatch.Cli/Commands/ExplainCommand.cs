@@ -15,7 +15,7 @@ internal static class ExplainCommand
     {
         var id = new Argument<long?>("alert-id") { Description = "The alert's id (as 'modelwatch alerts' lists it)", Arity = ArgumentArity.ZeroOrOne };
         var run = new Option<long?>("--run") { Description = "Explain this run instead of an alert (run ids are numbered apart from alert ids)", HelpName = "RUN_ID" };
-        var html = new Option<string?>("--html") { Description = "Also write a self-contained HTML report with charts to this file" };
+        var html = new Option<string?>("--html") { Description = "Also write a self-contained HTML report with charts to this file", HelpName = "FILE" };
         var database = StoreCommandRunner.DatabaseOption();
         var command = new Command("explain", "Show the evidence behind an alert (or, with --run, a run): what moved, the error decomposition, the features involved, the runbook") { id, run, html, database };
         command.Validators.Add(result =>

@@ -52,7 +52,7 @@ public sealed partial class ExplainCommandTests(PostgresDatabase database, ITest
         Assert.Matches(@"What moved \(\d+ critical finding\(s\) in run \d+\):", run.Output);
         Assert.Contains("[critical] coefficients wald (model): all coefficients of the window's refit against the deployed ones", run.Output, StringComparison.Ordinal);
         Assert.Contains("[critical] coefficients z (trucks): coefficient of trucks on the window's refit moved from", run.Output, StringComparison.Ordinal);
-        Assert.Matches(@"of the error increase over baseline: noise -?\d+ %, level drift -?\d+ %, slope drift \d+ %", run.Output);
+        Assert.Matches(@"of the error increase over baseline: noise -?\d+ %, level drift -?\d+ %, slope drift \d+ %\n  How to read the shares: ", run.Output);
         Assert.Matches(@"Features involved: trucks\b", run.Output);
         Assert.Contains("Runbook, coefficients:", run.Output, StringComparison.Ordinal);
         Assert.Contains(RunbookHints.For("coefficients")!.Act, run.Output, StringComparison.Ordinal);
@@ -123,6 +123,19 @@ public sealed partial class ExplainCommandTests(PostgresDatabase database, ITest
         Assert.Contains("report: " + report, run.Output, StringComparison.Ordinal);
         Assert.DoesNotMatch(@"<script|https?://|\burl\(|@import|<link|\bsrc=", html);
         Assert.Contains(WebUtility.HtmlEncode(RunbookHints.Caution), html, StringComparison.Ordinal);
+
+        // Axes carry titles with the spec's unit and dated UTC ticks; the alert's open period is shaded and its
+        // evidence run marked; the alert's own charts (a model-wide coefficients alert: every coefficient) come first.
+        Assert.Contains(WebUtility.HtmlEncode("↑ coefficient (minutes per unit of trucks)"), html, StringComparison.Ordinal);
+        Assert.Contains(WebUtility.HtmlEncode("↑ RMSE (minutes)"), html, StringComparison.Ordinal);
+        Assert.Contains(WebUtility.HtmlEncode("end of each run's window (UTC)"), html, StringComparison.Ordinal);
+        Assert.Matches(@"class=""tick xtick( alt)?"" text-anchor=""\w+"">2026-04-0\d<tspan x=""[\d.]+"" dy=""1.15em"">\d\d:00</tspan>", html);
+        Assert.Contains("class=\"period\"", html, StringComparison.Ordinal);
+        Assert.Matches($@"<li><span class=""key marker"" style=""--key:#[0-9a-f]{{6}}""></span>evidence run #\d+</li>", html);
+        string own = html[html.IndexOf("The alert&#39;s own evidence", StringComparison.Ordinal)..html.IndexOf("The rest of the model", StringComparison.Ordinal)];
+        Assert.Equal(4, Regex.Count(own, "data-chart=\"coefficient\""));
+        Assert.DoesNotContain("data-chart=\"error\"", own, StringComparison.Ordinal);
+        Assert.Contains("How to read the shares", html, StringComparison.Ordinal);
         Match result = MeasuredRegex().Match(dom);
         Assert.True(result.Success, "the measuring script wrote nothing: " + dom[..Math.Min(dom.Length, 500)]);
         using JsonDocument charts = JsonDocument.Parse(WebUtility.HtmlDecode(result.Groups[1].Value));
