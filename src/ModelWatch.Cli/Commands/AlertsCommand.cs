@@ -21,9 +21,9 @@ internal static class AlertsCommand
     private static Command List()
     {
         var key = new Argument<string?>("key") { Description = "Only this model's alerts", Arity = ArgumentArity.ZeroOrOne };
-        var state = new Option<string>("--state") { Description = "unresolved (default), open, acknowledged, resolved or all", DefaultValueFactory = _ => "unresolved" };
+        var state = new Option<string>("--state") { Description = "unresolved, open, acknowledged, resolved or all", DefaultValueFactory = _ => "unresolved" };
         state.AcceptOnlyFromAmong("unresolved", "open", "acknowledged", "resolved", "all");
-        var limit = new Option<int>("--limit") { Description = "Newest alerts to show (default 100)", DefaultValueFactory = _ => 100 };
+        var limit = new Option<int>("--limit") { Description = "Newest alerts to show", DefaultValueFactory = _ => 100 };
         var format = FormatOption();
         var database = StoreCommandRunner.DatabaseOption();
         var command = new Command("list", "List alerts, newest first") { key, state, limit, format, database };
@@ -105,7 +105,7 @@ internal static class AlertsCommand
     private static Command Change(string verb, string description)
     {
         var id = new Argument<long>("id") { Description = "Alert id" };
-        var actor = new Option<string>("--actor") { Description = "Who is acting (default: the current user)", DefaultValueFactory = _ => StoreCommandRunner.Actor };
+        var actor = new Option<string>("--actor") { Description = "Who is acting", DefaultValueFactory = _ => StoreCommandRunner.Actor };
         var note = new Option<string?>("--note") { Description = "A note kept with the alert" };
         var database = StoreCommandRunner.DatabaseOption();
         var command = new Command(verb, description) { id, actor, note, database };
@@ -134,7 +134,7 @@ internal static class AlertsCommand
         var check = new Option<string?>("--check") { Description = "Only this check (default: every check of the model)" };
         var until = OperationOptions.Time("--until", "When the silence ends", required: true);
         var reason = new Option<string>("--reason") { Description = "Why (kept with the silence)", Required = true };
-        var actor = new Option<string>("--actor") { Description = "Who is acting (default: the current user)", DefaultValueFactory = _ => StoreCommandRunner.Actor };
+        var actor = new Option<string>("--actor") { Description = "Who is acting", DefaultValueFactory = _ => StoreCommandRunner.Actor };
         var database = StoreCommandRunner.DatabaseOption();
         var command = new Command("silence", "Stop notifications for a model (or one check) until a time; runs and alerts go on") { key, check, until, reason, actor, database };
         command.SetAction((parse, cancellationToken) => StoreCommandRunner.RunAsync(parse, "alerts silence", database, async (databases, output, ct) =>

@@ -38,11 +38,7 @@ internal static class ModelListCommand
                 m.BaselineVersion is null ? "none" : m.HasCompatibleBaseline ? $"v{m.BaselineVersion}" : $"v{m.BaselineVersion} (incompatible)",
                 CliJson.Time(m.NextDueSlot) ?? "-",
             })];
-            int[] widths = [.. Enumerable.Range(0, header.Length).Select(c => rows.Max(r => r[c].Length))];
-            foreach (string[] row in rows)
-            {
-                output.WriteLine(string.Join("  ", row.Select((cell, c) => cell.PadRight(widths[c]))).TrimEnd());
-            }
+            CliJson.WriteTable(output, rows);
 
             return ExitCodes.Ok;
         }, cancellationToken));

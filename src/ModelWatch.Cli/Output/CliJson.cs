@@ -36,15 +36,7 @@ internal static class CliJson
         }
     }
 
-    /// <summary>Prints rows as aligned columns, the first row being the header.</summary>
-    public static void WriteTable(TextWriter output, IReadOnlyList<string[]> cells)
-    {
-        ArgumentNullException.ThrowIfNull(cells);
-        string[][] rows = [.. cells.Select(r => r.Select(c => TerminalText.Clean(c) ?? string.Empty).ToArray())];
-        int[] widths = [.. Enumerable.Range(0, rows[0].Length).Select(c => rows.Max(r => r[c].Length))];
-        foreach (string[] row in rows)
-        {
-            output.WriteLine(string.Join("  ", row.Select((cell, c) => cell.PadRight(widths[c]))).TrimEnd());
-        }
-    }
+    /// <summary>Prints rows as aligned columns, the first row being the header (see <see cref="TextTable"/>).</summary>
+    public static void WriteTable(TextWriter output, IReadOnlyList<string[]> cells, int? freeTextColumn = null) =>
+        TextTable.Write(output, cells, freeTextColumn);
 }
