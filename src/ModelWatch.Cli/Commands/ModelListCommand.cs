@@ -53,13 +53,7 @@ internal static class ModelListCommand
         var command = new Command("show", "Show one model: its stored spec, state and baseline") { key, format, database };
         command.SetAction((parse, cancellationToken) => StoreCommandRunner.RunAsync(parse, "model show", database, async (databases, output, ct) =>
         {
-            string name = parse.GetRequiredValue(key);
-            ModelRecord? model = await new ModelRepository(databases.State, TimeProvider.System, StoreCommandRunner.CommandTimeout).GetAsync(name, ct);
-            if (model is null)
-            {
-                parse.InvocationConfiguration.Error.WriteLine($"modelwatch model show: no model '{name}'");
-                return ExitCodes.RuntimeError;
-            }
+            ModelRecord model = await ModelKeys.RequireAsync(databases, parse.GetRequiredValue(key), ct);
 
             if (parse.GetValue(format) == OutputFormat.Json)
             {

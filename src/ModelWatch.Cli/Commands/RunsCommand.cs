@@ -18,6 +18,11 @@ internal static class RunsCommand
         var list = new Command("list", "List recorded runs, newest first: slot, window, status, worker and stage timings") { key, limit, format, database };
         list.SetAction((parse, cancellationToken) => StoreCommandRunner.RunAsync(parse, "runs list", database, async (databases, output, ct) =>
         {
+            if (parse.GetValue(key) is { } model)
+            {
+                await ModelKeys.RequireAsync(databases, model, ct);
+            }
+
             IReadOnlyList<RunView> runs = await new RunQueries(databases.State, StoreCommandRunner.CommandTimeout).ListAsync(parse.GetValue(key), Math.Max(1, parse.GetValue(limit)), ct);
             if (parse.GetValue(format) == OutputFormat.Json)
             {
