@@ -7,9 +7,10 @@ namespace ModelWatch.Cli.Output;
 /// <summary>
 /// The one table writer of the command line. A table is laid out within <see cref="TerminalWidth"/> without ever
 /// splitting a word: a time, an id or a key is whole on one line. To fit, it first shortens the free-text column
-/// (an explanation or a reason, cut with an ellipsis: the whole text is in <c>--format json</c> and <c>explain</c>),
-/// then lets cells of several words continue on a second line at a space, and only when even that is not enough
-/// lets the line run past the width. Severity words are coloured when a person is watching the terminal.
+/// (an explanation or a reason, cut with an ellipsis: the whole text is in <c>--format json</c> and <c>explain</c>)
+/// and lets cells of several words continue on a second line at a space; when the free text would keep fewer than
+/// 30 characters it moves to an indented line of its own under its row; when the other columns alone are too wide,
+/// the line runs past the width rather than split a word. Severity words are coloured when a person is watching the terminal.
 /// </summary>
 internal static class TextTable
 {
@@ -19,12 +20,15 @@ internal static class TextTable
     /// <summary>The mark at the end of shortened free text.</summary>
     public const string Ellipsis = "…";
 
-    // Free text is shortened to this first, before any other column wraps: a sentence's start is worth more than
-    // keeping a time range on one line.
+    // Free text keeps at least this much beside the other columns (which wrap at spaces to make room); with less
+    // it moves to a line of its own under its row.
     private const int FreeTextComfort = 30;
 
     // Below this a shortened text says nothing.
     private const int FreeTextMinimum = 8;
+
+    // Free text that has a line of its own starts here.
+    private const string Indent = "    ";
 
     /// <summary>
     /// Prints <paramref name="rows"/> (the first is the header) to <paramref name="output"/>.
@@ -62,15 +66,47 @@ internal static class TextTable
         ArgumentNullException.ThrowIfNull(rows);
         string[][] cells = [.. rows.Select(r => r.Select(c => TerminalText.Clean(c) ?? string.Empty).ToArray())];
         int columns = cells[0].Length;
-        int[] widths = ColumnWidths(cells, width, freeTextColumn);
+        int[] natural = [.. Enumerable.Range(0, columns).Select(c => cells.Max(r => r[c].Length))];
+        int[] shortest = [.. Enumerable.Range(0, columns).Select(c => cells.Max(r => LongestWord(r[c])))];
+        int[] grid = [.. Enumerable.Range(0, columns)];
+        int? beneath = null;
+        int[] widths = [.. natural];
+        if (width is { } limit && freeTextColumn is { } free)
+        {
+            int[] others = [.. grid.Where(c => c != free)];
+            int wanted = Math.Min(natural[free], FreeTextComfort);
+            widths = Fit(natural, shortest, others, limit - wanted - Gap);
+            int left = limit - others.Sum(c => widths[c] + Gap);
+            if (left >= wanted)
+            {
+                widths[free] = Math.Min(natural[free], left);
+            }
+            else
+            {
+                // Too narrow for the text beside the other columns: it goes on a line of its own under its row.
+                grid = others;
+                beneath = free;
+                widths = Fit(natural, shortest, others, limit);
+            }
+        }
+        else if (width is { } plain)
+        {
+            widths = Fit(natural, shortest, grid, plain);
+        }
+
         var lines = new List<string[]>();
         foreach (string[] row in cells)
         {
-            List<string>[] parts = [.. Enumerable.Range(0, columns).Select(c => c == freeTextColumn ? [Shorten(row[c], widths[c])] : Wrap(row[c], widths[c]))];
+            List<string>[] parts = [.. grid.Select(c => c == freeTextColumn ? [Shorten(row[c], widths[c])] : Wrap(row[c], widths[c]))];
             int height = parts.Max(p => p.Count);
             for (int i = 0; i < height; i++)
             {
-                lines.Add([.. Enumerable.Range(0, columns).Select(c => (i < parts[c].Count ? parts[c][i] : string.Empty).PadRight(c == columns - 1 ? 0 : widths[c]))]);
+                lines.Add([.. grid.Select((c, g) => (i < parts[g].Count ? parts[g][i] : string.Empty).PadRight(g == grid.Length - 1 ? 0 : widths[c]))]);
+            }
+
+            if (beneath is { } text && row[text].Length > 0)
+            {
+                lines.Add([Indent + Shorten(row[text], Math.Max(FreeTextMinimum, width!.Value - Indent.Length))]);
             }
         }
 
@@ -95,44 +131,20 @@ internal static class TextTable
         return text[..keep].TrimEnd() + Ellipsis;
     }
 
-    private static int[] ColumnWidths(string[][] cells, int? width, int? freeTextColumn)
+    // Natural widths, with the given columns wrapped (widest saving first, never below their longest word) until
+    // they and their gaps take at most `budget` characters, or cannot shrink further.
+    private static int[] Fit(int[] natural, int[] shortest, int[] columns, int budget)
     {
-        int columns = cells[0].Length;
-        int[] natural = [.. Enumerable.Range(0, columns).Select(c => cells.Max(r => r[c].Length))];
         int[] widths = [.. natural];
-        if (width is not { } limit)
+        int excess = columns.Sum(c => natural[c] + Gap) - Gap - budget;
+        foreach (int c in columns.OrderByDescending(c => natural[c] - shortest[c]))
         {
-            return widths;
-        }
-
-        int excess = widths.Sum() + (Gap * (columns - 1)) - limit;
-        int[] shortest = [.. Enumerable.Range(0, columns).Select(c => c == freeTextColumn
-            ? Math.Min(natural[c], Math.Max(FreeTextMinimum, cells[0][c].Length))
-            : cells.Max(r => LongestWord(r[c])))];
-        if (freeTextColumn is { } free)
-        {
-            excess -= Narrow(widths, free, Math.Max(shortest[free], Math.Min(natural[free], FreeTextComfort)), excess);
-        }
-
-        foreach (int c in Enumerable.Range(0, columns).Where(c => c != freeTextColumn).OrderByDescending(c => natural[c] - shortest[c]))
-        {
-            excess -= Narrow(widths, c, shortest[c], excess);
-        }
-
-        if (freeTextColumn is { } last)
-        {
-            Narrow(widths, last, shortest[last], excess);
+            int take = Math.Clamp(Math.Min(excess, widths[c] - shortest[c]), 0, int.MaxValue);
+            widths[c] -= take;
+            excess -= take;
         }
 
         return widths;
-    }
-
-    // Takes up to `excess` characters from a column without going below `floor`; returns how many it took.
-    private static int Narrow(int[] widths, int column, int floor, int excess)
-    {
-        int take = Math.Clamp(Math.Min(excess, widths[column] - floor), 0, int.MaxValue);
-        widths[column] -= take;
-        return take;
     }
 
     private static int LongestWord(string text) => text.Length == 0 ? 0 : Words(text).Max(w => w.Length);

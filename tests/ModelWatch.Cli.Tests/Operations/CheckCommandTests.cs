@@ -92,7 +92,7 @@ public sealed class CheckCommandTests(PostgresDatabase database) : IClassFixture
         CliRun run = await LaundryScenario.Cli(database, "check", "no-such-model", "--at", "2026-02-02T15:00:00Z");
 
         Assert.Equal(ExitCodes.RuntimeError, run.ExitCode);
-        Assert.Contains("modelwatch check: model no-such-model is not registered", run.Error, StringComparison.Ordinal);
+        Assert.Contains("modelwatch check: no model 'no-such-model'", run.Error, StringComparison.Ordinal);
     }
 
     [Theory]
