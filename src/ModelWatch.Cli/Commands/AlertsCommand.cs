@@ -51,7 +51,7 @@ internal static class AlertsCommand
             {
                 a.Id.ToString(CultureInfo.InvariantCulture), a.Model, a.Check, a.Subject ?? "-", a.Severity, a.State, CliJson.Time(a.OpenedAt)!, a.Explanation ?? string.Empty,
             }));
-            CliJson.WriteTable(output, rows);
+            CliJson.WriteTable(output, rows, freeText: "EXPLANATION");
             return ExitCodes.Ok;
         }, cancellationToken));
         return command;

@@ -39,7 +39,7 @@ internal static class RunsCommand
                 r.FinishedAt is { } f ? (f - r.StartedAt).TotalSeconds.ToString("F2", CultureInfo.InvariantCulture) : "-",
                 r.Reason ?? string.Empty,
             }));
-            CliJson.WriteTable(output, rows, freeTextColumn: rows[0].Length - 1);
+            CliJson.WriteTable(output, rows, freeText: "REASON");
             return ExitCodes.Ok;
         }, cancellationToken));
         return new Command("runs", "Run history") { list };

@@ -65,7 +65,7 @@ internal static class BacktestOutput
                 w.Status != "ok" ? w.Reason ?? string.Empty : top is null ? "-" : $"{top.Check}{(top.Subject is null ? string.Empty : "/" + top.Subject)} {top.Statistic} = {CheckOutput.Number(top.Value)}",
             };
         }));
-        Terminal.WriteTable(output, rows, freeTextColumn: rows[0].Length - 1);
+        Terminal.WriteTable(output, rows, freeText: "WORST FINDING");
         output.WriteLine();
         if (alerts.Count == 0)
         {

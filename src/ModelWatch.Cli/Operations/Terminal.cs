@@ -14,10 +14,10 @@ internal static class Terminal
 
     /// <summary>
     /// Prints rows (the first is the header) as a table that fits the terminal (see <see cref="TextTable"/>);
-    /// <paramref name="freeTextColumn"/> is the column whose long text may be shortened with an ellipsis.
+    /// <paramref name="freeText"/> is the header of the column whose long text may be shortened with an ellipsis.
     /// </summary>
-    public static void WriteTable(TextWriter output, IReadOnlyList<string[]> rows, int? freeTextColumn = null) =>
-        TextTable.Write(output, rows, freeTextColumn);
+    public static void WriteTable(TextWriter output, IReadOnlyList<string[]> rows, string? freeText = null) =>
+        TextTable.Write(output, rows, freeText);
 
     /// <summary>
     /// Runs <paramref name="body"/>, which calls its argument once per finished step. A progress bar is drawn on

@@ -47,6 +47,6 @@ internal static class CliJson
     }
 
     /// <summary>Prints rows as aligned columns, the first row being the header (see <see cref="TextTable"/>).</summary>
-    public static void WriteTable(TextWriter output, IReadOnlyList<string[]> cells, int? freeTextColumn = null) =>
-        TextTable.Write(output, cells, freeTextColumn);
+    public static void WriteTable(TextWriter output, IReadOnlyList<string[]> cells, string? freeText = null) =>
+        TextTable.Write(output, cells, freeText);
 }

@@ -32,12 +32,14 @@ internal static class TextTable
 
     /// <summary>
     /// Prints <paramref name="rows"/> (the first is the header) to <paramref name="output"/>.
-    /// <paramref name="freeTextColumn"/> is the index of the column whose long text may be shortened, if any.
+    /// <paramref name="freeText"/> is the header of the column whose long text may be shortened, if any.
     /// </summary>
-    public static void Write(TextWriter output, IReadOnlyList<string[]> rows, int? freeTextColumn = null)
+    public static void Write(TextWriter output, IReadOnlyList<string[]> rows, string? freeText = null)
     {
         ArgumentNullException.ThrowIfNull(output);
-        IReadOnlyList<string[]> lines = Layout(rows, TerminalWidth.For(output), freeTextColumn);
+        ArgumentNullException.ThrowIfNull(rows);
+        int column = freeText is null ? -1 : Array.IndexOf(rows[0], freeText);
+        IReadOnlyList<string[]> lines = Layout(rows, TerminalWidth.For(output), column >= 0 ? column : null);
         if (!Terminal.IsTerminal(output))
         {
             foreach (string[] line in lines)
