@@ -22,14 +22,19 @@ internal static class AlertsCommand
     private static Command List()
     {
         var key = new Argument<string?>("key") { Description = "Only this model's alerts", Arity = ArgumentArity.ZeroOrOne };
-        var state = new Option<string>("--state") { Description = "unresolved (default), open, acknowledged, resolved or all", DefaultValueFactory = _ => "unresolved" };
+        var state = new Option<string>("--state") { Description = "unresolved, open, acknowledged, resolved or all", DefaultValueFactory = _ => "unresolved" };
         state.AcceptOnlyFromAmong("unresolved", "open", "acknowledged", "resolved", "all");
-        var limit = new Option<int>("--limit") { Description = "Newest alerts to show (default 100)", DefaultValueFactory = _ => 100 };
+        var limit = new Option<int>("--limit") { Description = "Newest alerts to show", DefaultValueFactory = _ => 100 };
         var format = FormatOption();
         var database = StoreCommandRunner.DatabaseOption();
         var command = new Command("list", "List alerts, newest first") { key, state, limit, format, database };
         command.SetAction((parse, cancellationToken) => StoreCommandRunner.RunAsync(parse, "alerts list", database, async (databases, output, ct) =>
         {
+            if (parse.GetValue(key) is { } model)
+            {
+                await ModelKeys.RequireAsync(databases, model, ct);
+            }
+
             string? filter = parse.GetValue(state) is "all" ? null : parse.GetValue(state);
             IReadOnlyList<AlertView> alerts = await Repository(databases).ListAsync(parse.GetValue(key), filter, Math.Max(1, parse.GetValue(limit)), ct);
             if (parse.GetValue(format) == OutputFormat.Json)
@@ -53,7 +58,7 @@ internal static class AlertsCommand
                 return ExitCodes.Ok;
             }
 
-            List<string[]> rows = [["ALERT", "MODEL", "CHECK", "SUBJECT", "STATE", "OPENED", "OPENED AS", "LATEST EVIDENCE", "QUIET UNTIL"]];
+            List<string[]> rows = [["ALERT", "MODEL", "CHECK", "SUBJECT", "STATE", "OPENED", "OPENED AS", "QUIET UNTIL", "LATEST EVIDENCE"]];
             rows.AddRange(alerts.Select(a => new[]
             {
                 "#" + a.Id.ToString(CultureInfo.InvariantCulture),
@@ -62,11 +67,11 @@ internal static class AlertsCommand
                 a.Subject ?? "-",
                 a.State,
                 CliJson.Time(a.OpenedAt)!,
-                Opening(a),
-                Latest(a),
+                OpeningInBrief(a),
                 a.QuietUntil is null ? "-" : CliJson.Time(a.QuietUntil)!,
+                Latest(a),
             }));
-            CliJson.WriteTable(output, rows);
+            CliJson.WriteTable(output, rows, freeText: "LATEST EVIDENCE");
             return ExitCodes.Ok;
         }, cancellationToken));
         return command;
@@ -195,6 +200,16 @@ internal static class AlertsCommand
 
     private static string Opening(AlertView alert) =>
         $"{alert.OpeningSeverity}{Again(alert)}: {alert.OpeningExplanation}";
+
+    // The list keeps the opening evidence to its severity and statistic, so the latest evidence has the room to be read;
+    // `alerts show` and JSON give both explanations whole.
+    private static string OpeningInBrief(AlertView alert)
+    {
+        string statistic = alert.OpeningStatistic is { } name
+            ? " " + name + (alert.OpeningValue is { } v ? " " + v.ToString("G4", CultureInfo.InvariantCulture) : string.Empty)
+            : string.Empty;
+        return $"{alert.OpeningSeverity}{statistic}{(alert.PreviousAlertId is { } previous ? $", again after #{previous.ToString(CultureInfo.InvariantCulture)}" : string.Empty)}";
+    }
 
     private static string Latest(AlertView alert) =>
         alert.Explanation is null ? "-" : $"{alert.LatestSeverity ?? "recorded"}: {alert.Explanation}";

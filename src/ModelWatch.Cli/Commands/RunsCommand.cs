@@ -12,12 +12,17 @@ internal static class RunsCommand
     public static Command Create()
     {
         var key = new Argument<string?>("key") { Description = "Only this model's runs", Arity = ArgumentArity.ZeroOrOne };
-        var limit = new Option<int>("--limit") { Description = "Newest runs to show (default 50)", DefaultValueFactory = _ => 50 };
+        var limit = new Option<int>("--limit") { Description = "Newest runs to show", DefaultValueFactory = _ => 50 };
         var format = new Option<OutputFormat>("--format") { Description = "table or json", DefaultValueFactory = _ => OutputFormat.Table };
         var database = StoreCommandRunner.DatabaseOption();
         var list = new Command("list", "List recorded runs, newest first: slot, window, status, worker and stage timings") { key, limit, format, database };
         list.SetAction((parse, cancellationToken) => StoreCommandRunner.RunAsync(parse, "runs list", database, async (databases, output, ct) =>
         {
+            if (parse.GetValue(key) is { } model)
+            {
+                await ModelKeys.RequireAsync(databases, model, ct);
+            }
+
             IReadOnlyList<RunView> runs = await new RunQueries(databases.State, StoreCommandRunner.CommandTimeout).ListAsync(parse.GetValue(key), Math.Max(1, parse.GetValue(limit)), ct);
             if (parse.GetValue(format) == OutputFormat.Json)
             {
@@ -25,16 +30,16 @@ internal static class RunsCommand
                 return ExitCodes.Ok;
             }
 
-            List<string[]> rows = [["ID", "MODEL", "SLOT", "WINDOW", "STATUS", "ROWS", "WORKER", "SECONDS", "REASON"]];
+            // The window a run read follows from its slot and the spec; it is in --format json and 'explain ID'.
+            List<string[]> rows = [["ID", "MODEL", "SLOT", "STATUS", "ROWS", "WORKER", "SECONDS", "REASON"]];
             rows.AddRange(runs.Select(r => new[]
             {
                 r.Id.ToString(CultureInfo.InvariantCulture), r.Model, CliJson.Time(r.Slot)!,
-                r.WindowStart is null ? "-" : $"{CliJson.Time(r.WindowStart)} → {CliJson.Time(r.WindowEnd)}",
                 r.Status, r.RowsRead.ToString(CultureInfo.InvariantCulture), r.Worker,
                 r.FinishedAt is { } f ? (f - r.StartedAt).TotalSeconds.ToString("F2", CultureInfo.InvariantCulture) : "-",
                 r.Reason ?? string.Empty,
             }));
-            CliJson.WriteTable(output, rows);
+            CliJson.WriteTable(output, rows, freeText: "REASON");
             return ExitCodes.Ok;
         }, cancellationToken));
         return new Command("runs", "Run history") { list };

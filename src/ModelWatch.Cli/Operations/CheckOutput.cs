@@ -37,7 +37,7 @@ internal static class CheckOutput
             {
                 f.Check, f.Subject ?? "-", f.SeverityName, f.Statistic, Number(f.Value), Number(f.Threshold), f.Explanation,
             }));
-            Terminal.WriteTable(output, rows);
+            Terminal.WriteTable(output, rows, freeText: "EXPLANATION");
         }
 
         if (skipped.Count > 0)

@@ -51,6 +51,7 @@ internal sealed record FindingLine(string Check, string? Subject, Severity Sever
             writer.WriteString("statistic", line.Statistic);
             JsonNumbers.Write(writer, "value", line.Value);
             JsonNumbers.Write(writer, "threshold", line.Threshold);
+            writer.WriteString("explanation", line.Explanation);
             writer.WriteEndObject();
         }
 

@@ -34,7 +34,7 @@ public sealed class CheckCommandTests(PostgresDatabase database) : IClassFixture
         Assert.Equal(JsonValueKind.Null, root.GetProperty("reason").ValueKind);
         Assert.Equal(24, root.GetProperty("rows").GetInt64());
         JsonElement[] findings = [.. root.GetProperty("findings").EnumerateArray()];
-        Assert.All(findings, f => Assert.Equal(["check", "subject", "severity", "statistic", "value", "threshold"], Names(f)));
+        Assert.All(findings, f => Assert.Equal(["check", "subject", "severity", "statistic", "value", "threshold", "explanation"], Names(f)));
         Assert.Contains(findings, f => f.GetProperty("check").GetString() == "coefficients" && f.GetProperty("severity").GetString() == "critical");
         Assert.Contains(findings, f => f.GetProperty("subject").ValueKind == JsonValueKind.Null);
         Assert.All(findings, f => Assert.Contains(f.GetProperty("severity").GetString(), new[] { "ok", "warning", "critical" }));
@@ -105,7 +105,7 @@ public sealed class CheckCommandTests(PostgresDatabase database) : IClassFixture
         CliRun run = await LaundryScenario.Cli(database, "check", "no-such-model", "--at", "2026-02-02T15:00:00Z");
 
         Assert.Equal(ExitCodes.RuntimeError, run.ExitCode);
-        Assert.Contains("modelwatch check: model no-such-model is not registered", run.Error, StringComparison.Ordinal);
+        Assert.Contains("modelwatch check: no model 'no-such-model'", run.Error, StringComparison.Ordinal);
     }
 
     [Theory]
