@@ -234,11 +234,11 @@ internal static class AlertsCommand
         writer.WriteString("acknowledged_by", alert.AcknowledgedBy);
         CliJson.WriteTime(writer, "resolved_at", alert.ResolvedAt);
         writer.WriteString("resolved_by", alert.ResolvedBy);
-        WriteNullable(writer, "first_run_id", alert.FirstRunId);
-        WriteNullable(writer, "last_run_id", alert.LastRunId);
+        JsonNumbers.Write(writer, "first_run_id", alert.FirstRunId);
+        JsonNumbers.Write(writer, "last_run_id", alert.LastRunId);
         writer.WriteString("note", alert.Note);
-        WriteNullable(writer, "previous_alert", alert.PreviousAlertId);
-        WriteNullable(writer, "baseline_version", alert.BaselineVersion);
+        JsonNumbers.Write(writer, "previous_alert", alert.PreviousAlertId);
+        JsonNumbers.Write(writer, "baseline_version", alert.BaselineVersion);
         CliJson.WriteTime(writer, "quiet_until", alert.QuietUntil);
         writer.WriteStartObject("opening");
         writer.WriteString("severity", alert.OpeningSeverity);
@@ -271,7 +271,7 @@ internal static class AlertsCommand
                 writer.WriteString("transition", entry.Transition);
                 writer.WriteString("severity", entry.Severity);
                 writer.WriteString("state", entry.State);
-                WriteNullable(writer, "run_id", entry.RunId);
+                JsonNumbers.Write(writer, "run_id", entry.RunId);
                 writer.WriteString("actor", entry.Actor);
                 CliJson.WriteTime(writer, "at", entry.At);
                 writer.WriteString("statistic", entry.Statistic);
@@ -298,19 +298,5 @@ internal static class AlertsCommand
         }
 
         writer.WriteEndObject();
-    }
-
-    private static void WriteNullable(Utf8JsonWriter writer, string name, int? value) => WriteNullable(writer, name, (long?)value);
-
-    private static void WriteNullable(Utf8JsonWriter writer, string name, long? value)
-    {
-        if (value is { } v)
-        {
-            writer.WriteNumber(name, v);
-        }
-        else
-        {
-            writer.WriteNull(name);
-        }
     }
 }
