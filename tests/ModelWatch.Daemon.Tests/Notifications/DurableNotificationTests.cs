@@ -28,7 +28,7 @@ public sealed class DurableNotificationTests(PostgresDatabase database) : IClass
         {
             Check = CheckNames.Features,
             State = new CheckState(),
-            Findings = [.. new[] { "distance_km", "stops", "load_kg" }.Select(f => new Finding { Check = CheckNames.Features, Subject = f, Statistic = "psi", Severity = Severity.Critical, RequiresPersistence = false, Value = 0.4, Threshold = 0.25, Explanation = "PSI of " + f })],
+            Findings = [.. new[] { "distance_km", "stops", "load_kg" }.Select(f => new Finding { Check = CheckNames.Features, Subject = f, Statistic = "psi", Severity = Severity.Critical, RequiresPersistence = false, Value = 0.4, Limit = 0.25, Explanation = "PSI of " + f })],
         };
         IReadOnlyList<AlertDecision> decisions = AlertPolicy.Evaluate([result], [], "fingerprint-1", new CheckThresholds());
         RecordedRun recorded = await DaemonTestData.RecordUnderLeaseAsync(database, "parcels-queued", slot, [result], decisions);
