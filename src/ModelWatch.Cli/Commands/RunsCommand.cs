@@ -66,7 +66,7 @@ internal static class RunsCommand
             List<string[]> rows = [["CHECK", "SUBJECT", "SEVERITY", "STATISTIC", "VALUE", "P", "ALPHA", "LIMIT", "EXPLANATION"]];
             rows.AddRange(findings.Select(f => new[]
             {
-                f.Check, f.Subject ?? "-", f.Severity, f.Statistic, Number(f.Value), Number(f.PValue), Number(f.Alpha), Number(f.Limit), f.Explanation,
+                f.Check, f.Subject ?? "-", f.SkipReason is null ? f.Severity : "skipped", f.Statistic, Number(f.Value), Number(f.PValue), Number(f.Alpha), Number(f.Limit), f.Explanation,
             }));
             CliJson.WriteTable(output, rows);
             return ExitCodes.Ok;
@@ -100,7 +100,8 @@ internal static class RunsCommand
             writer.WriteStartObject();
             writer.WriteString("check", f.Check);
             writer.WriteString("subject", f.Subject);
-            writer.WriteString("severity", f.Severity);
+            writer.WriteString("severity", f.SkipReason is null ? f.Severity : "skipped");
+            writer.WriteString("skip_reason", f.SkipReason);
             writer.WriteString("statistic", f.Statistic);
             JsonNumbers.Write(writer, "value", f.Value);
             JsonNumbers.Write(writer, "threshold", f.Threshold);

@@ -33,8 +33,11 @@ public sealed class FindingView
     /// <summary>The effect size.</summary>
     public double? EffectSize { get; set; }
 
-    /// <summary>ok, warning or critical.</summary>
+    /// <summary>ok, warning or critical; a skipped test is stored as ok, so read <see cref="SkipReason"/> first.</summary>
     public string Severity { get; set; } = string.Empty;
+
+    /// <summary>Why the test could not run (<c>insufficient_data</c>, …), or null when it ran.</summary>
+    public string? SkipReason { get; set; }
 
     /// <summary>The one-line explanation.</summary>
     public string Explanation { get; set; } = string.Empty;

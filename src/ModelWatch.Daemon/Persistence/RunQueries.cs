@@ -49,7 +49,7 @@ public sealed class RunQueries(NpgsqlDataSource state, TimeSpan commandTimeout)
             """
             SELECT run_id AS RunId, check_name AS Check, subject AS Subject, statistic AS Statistic, value AS Value, p_value AS PValue,
                    threshold AS Threshold, alpha AS Alpha, limit_value AS Limit, effect_size AS EffectSize, severity AS Severity,
-                   explanation AS Explanation, details::text AS Details
+                   details ->> 'skipped' AS SkipReason, explanation AS Explanation, details::text AS Details
               FROM modelwatch.finding
              WHERE run_id = @runId
              ORDER BY id

@@ -45,6 +45,12 @@ public sealed class RecordedFindingTests(PostgresDatabase database) : IClassFixt
                 "not stored as printed: " + f);
         }
 
+        // Skipped tests are stored too, and shown as skipped with their reason, never as ok.
+        Assert.All(stored, s => Assert.Equal(s.GetProperty("skip_reason").ValueKind == JsonValueKind.Null, s.GetProperty("severity").GetString() != "skipped"));
+        Assert.Equal(
+            stored.Length - checkFindings.Length,
+            stored.Count(s => s.GetProperty("severity").GetString() == "skipped"));
+
         JsonElement wald = stored.Single(s => s.GetProperty("statistic").GetString() == "wald");
         Assert.NotNull(Number(wald, "alpha"));
         Assert.NotNull(Number(wald, "limit"));
