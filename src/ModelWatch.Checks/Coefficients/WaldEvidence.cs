@@ -130,12 +130,13 @@ internal static class WaldEvidence
 
         double[] holm = MultipleTesting.HolmAdjusted(raw);
 
-        // Holm's step-down tests the r-th smallest raw p-value (r from 0) at α/(p − r): its critical |z| at that step.
-        int[] order = [.. Enumerable.Range(0, p).OrderBy(j => raw[j])];
-        double[] critical = new double[p];
-        for (int r = 0; r < p; r++)
+        // Holm's step-down tests the r-th smallest raw p-value (r from 0) of the m that exist at α/(m − r): its critical
+        // |z| at that step (a coefficient without a p-value is outside the family, as in HolmAdjusted).
+        int[] order = [.. Enumerable.Range(0, p).Where(j => !double.IsNaN(raw[j])).OrderBy(j => raw[j])];
+        double[] critical = [.. Enumerable.Repeat(double.NaN, p)];
+        for (int r = 0; r < order.Length; r++)
         {
-            critical[order[r]] = StandardDistributions.NormalUpperQuantile(alpha / (2.0 * (p - r)));
+            critical[order[r]] = StandardDistributions.NormalUpperQuantile(alpha / (2.0 * (order.Length - r)));
         }
 
         for (int j = 0; j < p; j++)

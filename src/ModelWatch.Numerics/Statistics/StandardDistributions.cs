@@ -105,7 +105,8 @@ public static class StandardDistributions
         // P(F ≥ f) = I_x(d2/2, d1/2) with x = d2/(d2 + d1·f), increasing in x.
         double low = 0.0;
         double high = 1.0;
-        for (int i = 0; i < 200 && high - low > 1e-300; i++)
+        // Twelve significant digits of x are more than a printed critical value needs, and about 50 steps.
+        for (int i = 0; i < 200 && high - low > 1e-12 * high; i++)
         {
             double mid = 0.5 * (low + high);
             if (SpecialFunctions.BetaRegularized(denominatorDf / 2.0, numeratorDf / 2.0, mid) < upperTail)

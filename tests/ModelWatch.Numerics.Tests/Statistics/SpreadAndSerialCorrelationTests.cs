@@ -86,6 +86,11 @@ public sealed class SpreadAndSerialCorrelationTests
         double f = StandardDistributions.FisherUpperQuantile(1e-7, 4, 50);
         Assert.Equal(1.0, StandardDistributions.FisherUpper(f, 4, 50) / 1e-7, 9);
         Assert.True(double.IsNaN(StandardDistributions.FisherUpperQuantile(0.0, 4, 50)));
+
+        // A Chow predictive test on a million new rows against a million reference rows: F stays near 1.
+        double large = StandardDistributions.FisherUpperQuantile(6e-6, 1e6, 1e6);
+        Assert.InRange(large, 1.005, 1.02);
+        Assert.Equal(1.0, StandardDistributions.FisherUpper(large, 1e6, 1e6) / 6e-6, 6);
     }
 
     [Fact]
