@@ -146,7 +146,7 @@ internal static class ResidualShape
                 Severity = pdw < level ? Severity.Warning : Severity.Ok,
                 EffectSize = Finite(1.0 - (d / 2.0)),
                 EffectSizeName = "lag1_autocorrelation",
-                Explanation = Fmt($"deployed errors in row order: Durbin–Watson d = {Num(d)} (2 means none; {(positive ? "positive" : "negative")} side), two-sided p between {Num(Math.Min(1.0, 2.0 * liberal))} and {Num(pdw)} by the bounds; the larger, {P(pdw)}, decides (warns only, at α {Level(level)})"),
+                Explanation = Fmt($"deployed errors in row order: Durbin–Watson d = {Num(d)} (2 means none; {(positive ? "positive" : "negative")} side), two-sided p between {Num(Math.Min(1.0, 2.0 * liberal))} and {Num(pdw)} by the bounds; the conservative end, {P(pdw)}, decides (warns only, at α {Level(level)})"),
                 Details = Details(("p_value_liberal", Math.Min(1.0, 2.0 * liberal))),
             };
         }
