@@ -32,10 +32,10 @@ internal static class CheckOutput
         if (findings.Count > 0)
         {
             output.WriteLine();
-            List<string[]> rows = [["CHECK", "SUBJECT", "SEVERITY", "STATISTIC", "VALUE", "THRESHOLD", "EXPLANATION"]];
+            List<string[]> rows = [["CHECK", "SUBJECT", "SEVERITY", "STATISTIC", "VALUE", "P", "ALPHA", "LIMIT", "EXPLANATION"]];
             rows.AddRange(findings.Select(f => new[]
             {
-                f.Check, f.Subject ?? "-", f.SeverityName, f.Statistic, Number(f.Value), Number(f.Threshold), f.Explanation,
+                f.Check, f.Subject ?? "-", f.SeverityName, f.Statistic, Number(f.Value), Number(f.PValue), Number(f.Alpha), Number(f.Limit), f.Explanation,
             }));
             Terminal.WriteTable(output, rows, freeText: "EXPLANATION");
         }
