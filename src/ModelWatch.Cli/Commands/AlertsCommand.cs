@@ -246,6 +246,8 @@ internal static class AlertsCommand
         JsonNumbers.Write(writer, "value", alert.OpeningValue);
         JsonNumbers.Write(writer, "threshold", alert.OpeningThreshold);
         JsonNumbers.Write(writer, "p_value", alert.OpeningPValue);
+        JsonNumbers.Write(writer, "alpha", alert.OpeningAlpha);
+        JsonNumbers.Write(writer, "limit", alert.OpeningLimit);
         writer.WriteString("explanation", alert.OpeningExplanation);
         writer.WriteEndObject();
         writer.WriteStartObject("latest");
@@ -254,6 +256,8 @@ internal static class AlertsCommand
         JsonNumbers.Write(writer, "value", alert.Value);
         JsonNumbers.Write(writer, "threshold", alert.Threshold);
         JsonNumbers.Write(writer, "p_value", alert.PValue);
+        JsonNumbers.Write(writer, "alpha", alert.Alpha);
+        JsonNumbers.Write(writer, "limit", alert.Limit);
         writer.WriteString("explanation", alert.Explanation);
         writer.WriteEndObject();
 
@@ -277,6 +281,9 @@ internal static class AlertsCommand
                 writer.WriteString("statistic", entry.Statistic);
                 JsonNumbers.Write(writer, "value", entry.Value);
                 JsonNumbers.Write(writer, "threshold", entry.Threshold);
+                JsonNumbers.Write(writer, "p_value", entry.PValue);
+                JsonNumbers.Write(writer, "alpha", entry.Alpha);
+                JsonNumbers.Write(writer, "limit", entry.Limit);
                 writer.WriteString("explanation", entry.Explanation);
                 writer.WriteStartArray("notifications");
                 foreach (NotificationStatus notification in entry.Notifications)
