@@ -23,6 +23,7 @@ public static class ModelWatchCommandLine
         root.Subcommands.Add(Operations.CheckCommand.Create());
         root.Subcommands.Add(Operations.BacktestCommand.Create());
         root.Subcommands.Add(Demo.DemoCommand.Create());
+        ValueParsers.Apply(root);
         return root;
     }
 

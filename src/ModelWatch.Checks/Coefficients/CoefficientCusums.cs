@@ -78,7 +78,7 @@ internal static class CoefficientCusums
                 Subject = term,
                 Statistic = "cusum",
                 Value = crossed.Peak,
-                Threshold = h,
+                Limit = h,
                 Severity = GradeCusum(alarm, practical, crossed.Peak, h),
                 EffectSize = Finite(d),
                 EffectSizeName = "coefficient_change",

@@ -90,14 +90,14 @@ internal static class StructuralChangeMonitors
                     Statistic = "moving_estimates",
                     Value = Finite(z),
                     PValue = Finite(pValue),
-                    Threshold = boundary,
+                    Limit = boundary,
                     Severity = crossed ? (practical ? Severity.Critical : Severity.Warning) : Severity.Ok,
                     EffectSize = Finite(me.Estimates[j] - b0[j]),
                     EffectSizeName = "coefficient_change",
                     RequiresPersistence = false,
                     Explanation = crossed
-                        ? Fmt($"the coefficient of {layout.Terms[j]} has moved: {Num(me.Estimates[j])} on the window's {k} rows against {Num(b0[j])} deployed; the moving-estimates monitor at {Num(z)} crossed its boundary ±{Num(boundary)}; {CoefficientsCheck.Impact(recent, j, floor)}")
-                        : Fmt($"moving estimate of {layout.Terms[j]}: {Num(me.Estimates[j])} against {Num(b0[j])} deployed, monitor {Num(z)} within ±{Num(boundary)}"),
+                        ? Fmt($"the coefficient of {layout.Terms[j]} has moved: {Num(me.Estimates[j])} on the window's {k} rows against {Num(b0[j])} deployed; the moving-estimates monitor at {Num(z)} crossed its boundary ±{Num(boundary)} ({P(pValue)} over the epoch); {CoefficientsCheck.Impact(recent, j, floor)}")
+                        : Fmt($"moving estimate of {layout.Terms[j]}: {Num(me.Estimates[j])} against {Num(b0[j])} deployed, monitor {Num(z)} within ±{Num(boundary)} ({P(pValue)} over the epoch)"),
                     Details = Details(("estimate", me.Estimates[j]), ("baseline", b0[j]), ("critical_value", c), ("monitoring_time", x), ("window_fraction", k / n), ("epoch", state.Epoch)),
                 });
             }
@@ -143,20 +143,21 @@ internal static class StructuralChangeMonitors
     {
         bool crossed = Math.Abs(value) > boundary;
         string direction = value > 0 ? "above" : "below";
+        string p = double.IsNaN(pValue) ? string.Empty : " (" + P(pValue) + " over the epoch)";
         return new Finding
         {
             Check = CheckNames.Coefficients,
             Statistic = statistic,
             Value = Finite(value),
             PValue = Finite(pValue),
-            Threshold = Finite(boundary),
+            Limit = Finite(boundary),
             Severity = crossed ? (practical ? Severity.Critical : Severity.Warning) : Severity.Ok,
             EffectSize = Finite(value),
             EffectSizeName = "scaled_error_sum",
             RequiresPersistence = false,
             Explanation = crossed
-                ? Fmt($"the level of the fit has moved: outcomes of {rows} run {direction} the deployed predictions; the {(statistic == "ols_mosum" ? "OLS-MOSUM" : "OLS-CUSUM")} monitor at {Num(value)} crossed ±{Num(boundary)}; {impact}")
-                : Fmt($"{(statistic == "ols_mosum" ? "OLS-MOSUM" : "OLS-CUSUM")} monitor of {rows}: {Num(value)} within ±{Num(boundary)}"),
+                ? Fmt($"the level of the fit has moved: outcomes of {rows} run {direction} the deployed predictions; the {(statistic == "ols_mosum" ? "OLS-MOSUM" : "OLS-CUSUM")} monitor at {Num(value)} crossed ±{Num(boundary)}{p}; {impact}")
+                : Fmt($"{(statistic == "ols_mosum" ? "OLS-MOSUM" : "OLS-CUSUM")} monitor of {rows}: {Num(value)} within ±{Num(boundary)}{p}"),
             Details = Details(("boundary", boundary)),
         };
     }

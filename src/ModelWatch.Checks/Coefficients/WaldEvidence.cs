@@ -51,6 +51,7 @@ internal static class WaldEvidence
 
             // W/p against F(p, min(n−p, m−p)): a conservative small-sample form of the χ²_p limit.
             double pw = StandardDistributions.FisherUpper(w / p, p, df2);
+            double critical = p * StandardDistributions.FisherUpperQuantile(alpha, p, df2);
             wald = Grade(pw, alpha, input.Thresholds.WarningAlpha, practical);
             yield return new Finding
             {
@@ -58,23 +59,24 @@ internal static class WaldEvidence
                 Statistic = "wald",
                 Value = Finite(w),
                 PValue = Finite(pw),
-                Threshold = alpha,
+                Alpha = alpha,
+                Limit = Finite(critical),
                 Severity = wald,
                 EffectSize = Finite(impact),
                 EffectSizeName = "predictive_impact",
-                Explanation = Fmt($"all coefficients of the window's refit against the deployed ones: Wald {Num(w)} on {p} df, {P(pw)}; drift alone would raise the deployed model's MSE by {Pct(impact)} on the window (floor {Pct(floor)})"),
+                Explanation = Fmt($"all coefficients of the window's refit against the deployed ones: Wald {Num(w)} on {p} df (critical {Num(critical)} at α {Level(alpha)}), {P(pw)}; drift alone would raise the deployed model's MSE by {Pct(impact)} on the window (floor {Pct(floor)})"),
                 Details = Details(("chi2_p_value", StandardDistributions.ChiSquareUpperTail(w, p)), ("df", p), ("df_denominator", df2)),
             };
         }
 
-        yield return Chow(input, fit, layout, alpha);
+        yield return Chow(input, fit, layout);
         foreach (Finding f in PerCoefficient(input, layout, b0, bHat, delta, fit, vRef, alpha, wald))
         {
             yield return f;
         }
     }
 
-    private static Finding Chow(CheckInput input, FitSummary fit, DesignLayout layout, double alpha)
+    private static Finding Chow(CheckInput input, FitSummary fit, DesignLayout layout)
     {
         AugmentedFactor? reference = input.Baseline.ToFactor();
         if (reference is null)
@@ -89,15 +91,20 @@ internal static class WaldEvidence
         double df2 = reference.RowCount + fit.RowCount - (2.0 * p);
         double f = (pooled.ResidualSumOfSquares - rss1 - rss2) / p / ((rss1 + rss2) / df2);
         double pf = StandardDistributions.FisherUpper(f, p, df2);
+
+        // Chow's test only informs, so its p-value is graded at the warning level, not the run's budget.
+        double level = input.Thresholds.WarningAlpha;
+        double critical = StandardDistributions.FisherUpperQuantile(level, p, df2);
         return new Finding
         {
             Check = CheckNames.Coefficients,
             Statistic = "chow",
             Value = Finite(f),
             PValue = Finite(pf),
-            Threshold = alpha,
-            Severity = pf < input.Thresholds.WarningAlpha ? Severity.Warning : Severity.Ok,
-            Explanation = Fmt($"Chow test of reference rows against this window: F({p}, {df2}) = {Num(f)}, {P(pf)} (assumes equal error variance; the Wald test and the monitors page)"),
+            Alpha = level,
+            Limit = Finite(critical),
+            Severity = pf < level ? Severity.Warning : Severity.Ok,
+            Explanation = Fmt($"Chow test of reference rows against this window: F({p}, {df2}) = {Num(f)} (critical {Num(critical)} at α {Level(level)}), {P(pf)} (assumes equal error variance; the Wald test and the monitors page)"),
             Details = Details(("rss_reference", rss1), ("rss_window", rss2), ("rss_pooled", pooled.ResidualSumOfSquares)),
         };
     }
@@ -122,6 +129,16 @@ internal static class WaldEvidence
         }
 
         double[] holm = MultipleTesting.HolmAdjusted(raw);
+
+        // Holm's step-down tests the r-th smallest raw p-value (r from 0) of the m that exist at α/(m − r): its critical
+        // |z| at that step (a coefficient without a p-value is outside the family, as in HolmAdjusted).
+        int[] order = [.. Enumerable.Range(0, p).Where(j => !double.IsNaN(raw[j])).OrderBy(j => raw[j])];
+        double[] critical = [.. Enumerable.Repeat(double.NaN, p)];
+        for (int r = 0; r < order.Length; r++)
+        {
+            critical[order[r]] = StandardDistributions.NormalUpperQuantile(alpha / (2.0 * (order.Length - r)));
+        }
+
         for (int j = 0; j < p; j++)
         {
             string term = layout.Terms[j];
@@ -140,11 +157,12 @@ internal static class WaldEvidence
                 Statistic = "z",
                 Value = Finite(z[j]),
                 PValue = Finite(holm[j]),
-                Threshold = alpha,
+                Alpha = alpha,
+                Limit = Finite(critical[j]),
                 Severity = severity,
                 EffectSize = Finite(effect),
                 EffectSizeName = "outcome_sd_per_feature_sd",
-                Explanation = Fmt($"coefficient of {term} on the window's refit moved from {Num(b0[j])} to {Num(bHat[j])}: {Num(Math.Abs(z[j]))} standard errors, {P(holm[j])} after Holm"),
+                Explanation = Fmt($"coefficient of {term} on the window's refit moved from {Num(b0[j])} to {Num(bHat[j])}: z = {Num(z[j])} standard errors (Holm's critical |z| at its step {Num(critical[j])}), {P(holm[j])} after Holm, α {Level(alpha)}"),
                 Details = Details(("baseline", b0[j]), ("refit", bHat[j]), ("raw_p_value", raw[j])),
             };
         }

@@ -76,7 +76,7 @@ public sealed class CollinearityCheck : IModelCheck
                 Subject = string.Join(", ", lost.AliasedTerms),
                 Statistic = "rank",
                 Value = fit.Rank,
-                Threshold = fit.ParameterCount,
+                Limit = fit.ParameterCount,
                 Severity = Severity.Critical,
                 RequiresPersistence = false,
                 Explanation = Fmt($"the window's design lost numerical rank ({fit.Rank} of {fit.ParameterCount}): {string.Join("; ", lost.Reasons)}; coefficients of {string.Join(", ", lost.AliasedTerms)} cannot be estimated — check the pipeline that produces these columns"),

@@ -38,7 +38,8 @@ internal static class CollinearityReading
                 Statistic = "vif" + suffix,
                 Value = Finite(vif),
                 PValue = Finite(p),
-                Threshold = alpha,
+                Alpha = double.IsNaN(p) ? null : alpha,
+                Limit = vifAlarm,
                 Severity = floors && beyondChance ? Severity.Critical : partly && (double.IsNaN(p) || p < input.Thresholds.WarningAlpha) ? Severity.Warning : Severity.Ok,
                 EffectSize = Finite(ratio),
                 EffectSizeName = "vif_ratio",
@@ -71,7 +72,8 @@ internal static class CollinearityReading
         bool beyondChance = double.IsNaN(p) || p < alpha;
         double dependencyIndex = input.Setting(CollinearityCheck.DependencyIndex);
         bool dependency = diagnostics.ConditionIndices[strongest] >= dependencyIndex && shares.Count(s => s >= proportion) >= 2;
-        bool floors = kappa >= input.Setting(CollinearityCheck.ConditionAlarm) && growth >= input.Setting(CollinearityCheck.ConditionGrowthLog10);
+        double alarm = input.Setting(CollinearityCheck.ConditionAlarm);
+        bool floors = kappa >= alarm && growth >= input.Setting(CollinearityCheck.ConditionGrowthLog10);
         Severity severity = floors && beyondChance ? Severity.Critical
             : dependency && !(reference >= dependencyIndex) && (double.IsNaN(p) || p < input.Thresholds.WarningAlpha) ? Severity.Warning
             : Severity.Ok;
@@ -87,11 +89,12 @@ internal static class CollinearityReading
             Statistic = "condition_number" + suffix,
             Value = Finite(kappa),
             PValue = Finite(p),
-            Threshold = alpha,
+            Alpha = double.IsNaN(p) ? null : alpha,
+            Limit = alarm,
             Severity = severity,
             EffectSize = Finite(growth),
             EffectSizeName = "log10_condition_growth",
-            Explanation = Fmt($"scaled condition number of {rows} is {Num(kappa)} against {Num(reference)} at baseline; the strongest near-dependency (index {Num(diagnostics.ConditionIndices[strongest])}) involves {string.Join(" and ", involved)}{(double.IsNaN(p) ? string.Empty : ", " + P(p) + " against sets of this size drawn from the baseline")}"),
+            Explanation = Fmt($"scaled condition number of {rows} is {Num(kappa)} against {Num(reference)} at baseline (pages at {Num(alarm)}); the strongest near-dependency (index {Num(diagnostics.ConditionIndices[strongest])}) involves {string.Join(" and ", involved)}{(double.IsNaN(p) ? string.Empty : ", " + P(p) + " against sets of this size drawn from the baseline")}"),
             Details = details,
         };
     }

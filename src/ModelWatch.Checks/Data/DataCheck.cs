@@ -66,11 +66,11 @@ public sealed class DataCheck : IModelCheck
                 Check = Name,
                 Statistic = "quiet_source",
                 Value = empty,
-                Threshold = quietRuns,
+                Limit = quietRuns,
                 Severity = dead ? Severity.Critical : Severity.Warning,
                 RequiresPersistence = false,
                 Explanation = dead
-                    ? Fmt($"the data source brought no new usable rows for {empty} runs in a row: the feed looks dead; check the query and the upstream pipeline")
+                    ? Fmt($"the data source brought no new usable rows for {empty} runs in a row (alert at {quietRuns}): the feed looks dead; check the query and the upstream pipeline")
                     : Fmt($"the data source brought no new usable rows this run ({empty} in a row; alert at {quietRuns})"),
             });
         }
@@ -85,11 +85,11 @@ public sealed class DataCheck : IModelCheck
                 Check = Name,
                 Statistic = "rejected_rows",
                 Value = share,
-                Threshold = critical,
+                Limit = critical,
                 Severity = share >= critical ? Severity.Critical : share >= input.Setting(RejectedShareWarning) ? Severity.Warning : Severity.Ok,
                 EffectSize = share,
                 EffectSizeName = "rejected_share",
-                Explanation = Fmt($"{window.RowsRejected} of {window.RowsRead} rows ({Pct(share)}) were rejected for NULL, NaN or infinite values in: {columns}"),
+                Explanation = Fmt($"{window.RowsRejected} of {window.RowsRead} rows ({Pct(share)}; critical at {Share(critical)}) were rejected for NULL, NaN or infinite values in: {columns}"),
                 Details = window.NonFiniteByColumn.ToDictionary(kv => "non_finite." + kv.Key, kv => (double)kv.Value, StringComparer.Ordinal),
             });
         }
@@ -120,7 +120,7 @@ public sealed class DataCheck : IModelCheck
             Check = Name,
             Statistic = "rows",
             Value = window.RowsAccepted,
-            Threshold = input.MinimumRows,
+            Limit = input.MinimumRows,
             Severity = Severity.Ok,
             Explanation = Fmt($"{window.RowsAccepted} usable rows (minimum {input.MinimumRows})"),
         });

@@ -17,6 +17,16 @@ internal static class FindingText
         : p < 1e-4 ? "p = " + p.ToString("0.0e0", CultureInfo.InvariantCulture)
         : "p = " + p.ToString("G2", CultureInfo.InvariantCulture);
 
+    /// <summary>A share with two significant digits below 10 % (a limit of 0.5 % is not "0 %"), else as <see cref="Pct"/>.</summary>
+    public static string Share(double share) =>
+        double.IsFinite(share) && Math.Abs(share) < 0.1 && share != 0.0 ? (100.0 * share).ToString("G2", CultureInfo.InvariantCulture) + " %" : Pct(share);
+
+    /// <summary>A significance level the way p-values print: <c>6.0e-6</c>, <c>0.01</c>.</summary>
+    public static string Level(double alpha) =>
+        !double.IsFinite(alpha) ? "n/a"
+        : alpha < 1e-4 ? alpha.ToString("0.0e0", CultureInfo.InvariantCulture)
+        : alpha.ToString("G2", CultureInfo.InvariantCulture);
+
     public static double? Finite(double v) => double.IsFinite(v) ? v : null;
 
     public static Dictionary<string, double> Details(params (string Name, double Value)[] values)

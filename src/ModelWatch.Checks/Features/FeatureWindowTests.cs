@@ -62,11 +62,12 @@ public static class FeatureWindowTests
                     Statistic = "ks",
                     Value = r.Statistic,
                     PValue = Finite(ksHolm[j]),
-                    Threshold = alpha,
+                    Alpha = alpha,
+                    Limit = ksFloor,
                     Severity = Grade(ksHolm[j], alpha, input.Thresholds.WarningAlpha, r.Statistic >= ksFloor),
                     EffectSize = r.Statistic,
                     EffectSizeName = "ks_distance",
-                    Explanation = Fmt($"distribution of {feature} against the reference: KS D = {Num(r.Statistic)}, {P(ksHolm[j])} after Holm over {q} features (window mean {Num(window.FeatureMeans[j])}, reference {Num(baseline.FeatureMeans.Count > j ? baseline.FeatureMeans[j] : double.NaN)})"),
+                    Explanation = Fmt($"distribution of {feature} against the reference: KS D = {Num(r.Statistic)} (floor {Num(ksFloor)}), {P(ksHolm[j])} after Holm over {q} features (window mean {Num(window.FeatureMeans[j])}, reference {Num(baseline.FeatureMeans.Count > j ? baseline.FeatureMeans[j] : double.NaN)})"),
                     Details = Details(("raw_p_value", r.PValue)),
                 }
                 : Skip(CheckNames.Features, "ks", SkipReasons.InsufficientData, "fewer than 20 rows in the reference or window sample of " + feature, feature);
@@ -108,7 +109,8 @@ public static class FeatureWindowTests
             Statistic = "psi",
             Value = psi,
             PValue = Finite(p),
-            Threshold = alpha,
+            Alpha = alpha,
+            Limit = critical,
             Severity = severity,
             EffectSize = psi,
             EffectSizeName = "psi",
@@ -134,17 +136,21 @@ public static class FeatureWindowTests
         // New rows above the reference's (n − j)-th order statistic: BetaBinomial(m, j + 1, n − j) under no change.
         double p = BetaBinomial.UpperTailMidP(m, j + 1.0, n - j, x);
         double excess = ((double)x / m) - share;
+
+        // The share is practical from the reference share plus the floor on.
+        double limit = share + input.Setting(FeaturesCheck.LeverageExcessFloor);
         return new Finding
         {
             Check = CheckNames.Features,
             Statistic = "leverage_exceedance",
             Value = (double)x / m,
             PValue = Finite(p),
-            Threshold = alpha,
+            Alpha = alpha,
+            Limit = Finite(limit),
             Severity = Grade(p, alpha, input.Thresholds.WarningAlpha, excess >= input.Setting(FeaturesCheck.LeverageExcessFloor)),
             EffectSize = excess,
             EffectSizeName = "exceedance_share_excess",
-            Explanation = Fmt($"{Pct((double)x / m)} of rows lie beyond the reference's 99th-percentile leverage (reference {Pct(share)}; {window.LeverageAboveReferenceMaximumCount} beyond any reference row, max leverage {Num(window.MaximumLeverage)}): predictions there are extrapolations, {P(p)}"),
+            Explanation = Fmt($"{Pct((double)x / m)} of rows lie beyond the reference's 99th-percentile leverage (reference {Pct(share)}, practical from {Share(limit)}; {window.LeverageAboveReferenceMaximumCount} beyond any reference row, max leverage {Num(window.MaximumLeverage)}): predictions there are extrapolations, {P(p)}"),
             Details = Details(("exceedances", x), ("above_reference_maximum", window.LeverageAboveReferenceMaximumCount), ("maximum_leverage", window.MaximumLeverage)),
         };
     }

@@ -16,14 +16,34 @@ public sealed record Finding
     /// <summary>The statistic's name, e.g. <c>wald</c>, <c>psi</c>, <c>bias_t</c>.</summary>
     public required string Statistic { get; init; }
 
-    /// <summary>The statistic's value.</summary>
+    /// <summary>
+    /// The statistic's value, in its own units: the number the explanation prints for it and the one <see cref="Limit"/>
+    /// is compared with (a two-sided statistic by its absolute value).
+    /// </summary>
     public double? Value { get; init; }
 
-    /// <summary>The p-value (Holm-adjusted where a family was tested).</summary>
+    /// <summary>The p-value (Holm- or Bonferroni-adjusted where a family was tested); null when the test has none.</summary>
     public double? PValue { get; init; }
 
-    /// <summary>The significance level or limit the value was compared with.</summary>
-    public double? Threshold { get; init; }
+    /// <summary>
+    /// The significance level <see cref="PValue"/> was compared with to grade the finding: the run's budgeted α for a
+    /// test that can page, the model's warning level for a test that only warns. Null when no p-value decides the
+    /// severity (a CUSUM, a monitor, a count against a setting).
+    /// </summary>
+    public double? Alpha { get; init; }
+
+    /// <summary>
+    /// The value <see cref="Value"/> itself was compared with, in the statistic's units: a CUSUM's h, a monitor's
+    /// boundary, a PSI cut-off, a VIF limit, a setting's count or share, or the critical value a significance test's α
+    /// gives the statistic (a z's or a chi-square's). Null when the statistic has no such cut-off.
+    /// </summary>
+    public double? Limit { get; init; }
+
+    /// <summary>
+    /// Kept for readers of the old single column: <see cref="Alpha"/> when the finding is graded by its p-value, else
+    /// <see cref="Limit"/>. New readers should use those two.
+    /// </summary>
+    public double? Threshold => Alpha ?? Limit;
 
     /// <summary>The verdict.</summary>
     public Severity Severity { get; init; }

@@ -104,6 +104,7 @@ public sealed class ErrorCheck : IModelCheck
         AugmentedFactor? reference = baseline.ToFactor();
         double pValue = double.NaN;
         double f = double.NaN;
+        double critical = double.NaN;
         if (reference is not null && window.Factor is not null && reference.RowCount > baseline.ToLayout().ParameterCount)
         {
             int p = baseline.ToLayout().ParameterCount;
@@ -112,6 +113,7 @@ public sealed class ErrorCheck : IModelCheck
             double dfRef = reference.RowCount - p;
             f = (pooled.ResidualSumOfSquares - rssRef) / m / (rssRef / dfRef);
             pValue = StandardDistributions.FisherUpper(f, m, dfRef);
+            critical = StandardDistributions.FisherUpperQuantile(alpha, m, dfRef);
             details["chow_predictive_f"] = f;
             details["chow_predictive_df_denominator"] = dfRef;
         }
@@ -121,14 +123,15 @@ public sealed class ErrorCheck : IModelCheck
         Severity severity = double.IsNaN(pValue)
             ? (practical ? Severity.Warning : Severity.Ok)
             : Grade(pValue, alpha, input.Thresholds.WarningAlpha, practical);
-        string test = double.IsNaN(pValue) ? "no reference factor for Chow's predictive test" : Fmt($"Chow predictive F = {Num(f)}, {P(pValue)}");
+        string test = double.IsNaN(pValue) ? "no reference factor for Chow's predictive test" : Fmt($"Chow predictive F = {Num(f)} (critical {Num(critical)} at α {Level(alpha)}), {P(pValue)}");
         var finding = new Finding
         {
             Check = Name,
             Statistic = "chow_predictive",
             Value = Finite(f),
             PValue = Finite(pValue),
-            Threshold = alpha,
+            Alpha = double.IsNaN(pValue) ? null : alpha,
+            Limit = Finite(critical),
             Severity = severity,
             EffectSize = Finite(growth),
             EffectSizeName = "relative_mse_growth",

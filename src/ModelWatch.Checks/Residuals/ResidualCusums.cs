@@ -53,10 +53,10 @@ internal static class ResidualCusums
                 Check = check,
                 Statistic = "cusum",
                 Value = state.Bias.Peak,
-                Threshold = h,
+                Limit = h,
                 Severity = Severity.Ok,
                 RequiresPersistence = false,
-                Explanation = "no rows new since the previous run; the CUSUM waits",
+                Explanation = Fmt($"no rows new since the previous run; the CUSUM waits at {Num(state.Bias.Peak)} of h = {Num(h)}"),
             }], state);
         }
 
@@ -81,7 +81,7 @@ internal static class ResidualCusums
             Check = check,
             Statistic = "cusum",
             Value = crossed.Peak,
-            Threshold = h,
+            Limit = h,
             Severity = GradeCusum(alarm, practical: true, crossed.Peak, h),
             EffectSize = Finite(error / s),
             EffectSizeName = "run_bias_in_reference_sd",
@@ -119,7 +119,7 @@ internal static class ResidualCusums
             Check = CheckNames.Residuals,
             Statistic = "variance_cusum",
             Value = crossed.Peak,
-            Threshold = h,
+            Limit = h,
             Severity = GradeCusum(alarm, practical: true, crossed.Peak, h),
             EffectSize = Finite(f),
             EffectSizeName = "run_variance_ratio",

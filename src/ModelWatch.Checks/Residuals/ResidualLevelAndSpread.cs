@@ -32,6 +32,7 @@ internal static class ResidualLevelAndSpread
         double p = StandardDistributions.StudentTTwoSided(t, baseline.ResidualDegreesOfFreedom);
         double effect = bias / s;
         double alpha = input.RunAlpha();
+        double critical = StandardDistributions.StudentTTwoSidedQuantile(alpha, baseline.ResidualDegreesOfFreedom);
         double floor = input.Setting(ResidualsCheck.BiasFloor);
         return new Finding
         {
@@ -39,11 +40,12 @@ internal static class ResidualLevelAndSpread
             Statistic = "bias_t",
             Value = Finite(t),
             PValue = Finite(p),
-            Threshold = alpha,
+            Alpha = alpha,
+            Limit = Finite(critical),
             Severity = Grade(p, alpha, input.Thresholds.WarningAlpha, Math.Abs(effect) >= floor),
             EffectSize = Finite(effect),
             EffectSizeName = "bias_in_reference_sd",
-            Explanation = Fmt($"deployed predictions are off by {Num(bias)} on average ({Num(effect)} reference SDs, floor {Num(floor)}): t = {Num(t)}, {P(p)}"),
+            Explanation = Fmt($"deployed predictions are off by {Num(bias)} on average ({Num(effect)} reference SDs, floor {Num(floor)}): t = {Num(t)} (critical |t| {Num(critical)} at α {Level(alpha)}), {P(p)}"),
             Details = Details(("bias", bias), ("standard_error", se)),
         };
     }
@@ -63,17 +65,19 @@ internal static class ResidualLevelAndSpread
         // The floor is on the variance scale, so the spread ratio is squared.
         bool practical = ratio * ratio < low || ratio * ratio > high;
         double alpha = input.RunAlpha(tests: 2);
+        double critical = StandardDistributions.FisherUpperQuantile(alpha, test.DegreesOfFreedom1, test.DegreesOfFreedom2);
         return new Finding
         {
             Check = CheckNames.Residuals,
             Statistic = "brown_forsythe",
             Value = Finite(test.Statistic),
             PValue = Finite(test.PValue),
-            Threshold = alpha,
+            Alpha = alpha,
+            Limit = Finite(critical),
             Severity = Grade(test.PValue, alpha, input.Thresholds.WarningAlpha, practical),
             EffectSize = Finite(ratio),
             EffectSizeName = "spread_ratio",
-            Explanation = Fmt($"residual spread is {Num(ratio)}× the reference (variance ×{Num(ratio * ratio)}; practical outside {Num(low)}–{Num(high)}): Brown–Forsythe F = {Num(test.Statistic)}, {P(test.PValue)}"),
+            Explanation = Fmt($"residual spread is {Num(ratio)}× the reference (variance ×{Num(ratio * ratio)}; practical outside {Num(low)}–{Num(high)}): Brown–Forsythe F = {Num(test.Statistic)} (critical {Num(critical)} at α {Level(alpha)}), {P(test.PValue)}"),
         };
     }
 
@@ -97,6 +101,9 @@ internal static class ResidualLevelAndSpread
         double z = Math.Log(ratio) / se;
         double p = StandardDistributions.NormalTwoSided(z);
         double alpha = input.RunAlpha(tests: 2);
+
+        // The ratio itself is the statistic; α gives it two limits, exp(±z_α/2·se); the upper one is reported.
+        double upper = Math.Exp(StandardDistributions.NormalUpperQuantile(alpha / 2.0) * se);
         double low = input.Setting(ResidualsCheck.SpreadRatioLow);
         double high = input.Setting(ResidualsCheck.SpreadRatioHigh);
         bool practical = ratio < low || ratio > high;
@@ -106,12 +113,13 @@ internal static class ResidualLevelAndSpread
             Statistic = "variance_ratio",
             Value = Finite(ratio),
             PValue = Finite(p),
-            Threshold = alpha,
+            Alpha = alpha,
+            Limit = Finite(upper),
             Severity = Grade(p, alpha, input.Thresholds.WarningAlpha, practical),
             EffectSize = Finite(Math.Sqrt(ratio)),
             EffectSizeName = "residual_sd_ratio",
-            Explanation = Fmt($"residual variance is {Num(ratio)}× the reference (SD {Num(fit.ResidualStandardDeviation)} against {Num(baseline.ResidualStandardDeviation)}; practical outside {Num(low)}–{Num(high)}): z = {Num(z)}, {P(p)} (kurtosis-adjusted)"),
-            Details = Details(("kurtosis", kurtosis), ("z", z)),
+            Explanation = Fmt($"residual variance is {Num(ratio)}× the reference (SD {Num(fit.ResidualStandardDeviation)} against {Num(baseline.ResidualStandardDeviation)}; practical outside {Num(low)}–{Num(high)}): z = {Num(z)}, {P(p)} (kurtosis-adjusted; beyond chance below {Num(1.0 / upper)} or above {Num(upper)} at α {Level(alpha)})"),
+            Details = Details(("kurtosis", kurtosis), ("z", z), ("lower_limit", 1.0 / upper)),
         };
     }
 

@@ -29,7 +29,8 @@ internal static class ResidualShape
             Statistic = "ks",
             Value = ks.Statistic,
             PValue = ks.PValue,
-            Threshold = alpha,
+            Alpha = alpha,
+            Limit = floor,
             Severity = Grade(ks.PValue, alpha, input.Thresholds.WarningAlpha, ks.Statistic >= floor),
             EffectSize = ks.Statistic,
             EffectSizeName = "ks_distance",
@@ -40,7 +41,8 @@ internal static class ResidualShape
 
     /// <summary>
     /// The two-sample Anderson–Darling statistic (Scholz &amp; Stephens 1987, midrank): weights the tails more than KS; its
-    /// p-value is interpolated in a table that ends at 0.001, so it warns but never pages.
+    /// p-value is interpolated in a table that ends at 0.001, so it warns but never pages. The finding's value is the
+    /// standardized T the p-value is read from (the text prints it); the raw A² is in the details.
     /// </summary>
     public static Finding Tails(CheckInput input)
     {
@@ -51,17 +53,20 @@ internal static class ResidualShape
 
         AndersonDarlingResult ad = AndersonDarlingKSample.ComputeSorted([input.Baseline.SortedResidualSample, SortedSample.Of(input.Window.ResidualSample)], midrank: true);
         double p = AndersonDarlingKSample.PValue(ad.Standardized, 2);
+        string source = AndersonDarlingKSample.BeyondTable(ad.Standardized, 2) ? "at most: beyond the table" : "interpolated";
+        double level = input.Thresholds.WarningAlpha;
         return new Finding
         {
             Check = CheckNames.Residuals,
             Statistic = "anderson_darling",
-            Value = Finite(ad.Statistic),
+            Value = Finite(ad.Standardized),
             PValue = Finite(p),
-            Threshold = input.Thresholds.WarningAlpha,
-            Severity = p < input.Thresholds.WarningAlpha ? Severity.Warning : Severity.Ok,
+            Alpha = level,
+            Severity = p < level ? Severity.Warning : Severity.Ok,
             EffectSize = Finite(ad.Standardized),
             EffectSizeName = "standardized_statistic",
-            Explanation = Fmt($"standardized residual tails against the reference: Anderson–Darling T = {Num(ad.Standardized)}, {P(p)} (interpolated; warns only)"),
+            Explanation = Fmt($"standardized residual tails against the reference: Anderson–Darling T = {Num(ad.Standardized)}, {P(p)} ({source}; warns only, at α {Level(level)})"),
+            Details = Details(("a2", ad.Statistic), ("a2_standard_deviation", ad.StandardDeviation)),
         };
     }
 
@@ -85,17 +90,19 @@ internal static class ResidualShape
         double baseR2 = input.Baseline.HeteroscedasticityStatistic is { } s && input.Baseline.SampleSize > 0 ? s / input.Baseline.SampleSize : double.NaN;
         bool practical = baseP is null || baseP >= input.Thresholds.WarningAlpha || r2 >= 2.0 * baseR2;
         double alpha = input.RunAlpha();
+        double critical = StandardDistributions.ChiSquareUpperQuantile(alpha, q);
         return new Finding
         {
             Check = CheckNames.Residuals,
             Statistic = "koenker_bp",
             Value = Finite(lm.Statistic),
             PValue = Finite(lm.PValue),
-            Threshold = alpha,
+            Alpha = alpha,
+            Limit = Finite(critical),
             Severity = Grade(lm.PValue, alpha, input.Thresholds.WarningAlpha, practical),
             EffectSize = Finite(r2),
             EffectSizeName = "aux_r_squared",
-            Explanation = Fmt($"residual variance against the features: Koenker LM = {Num(lm.Statistic)} on {q} df, {P(lm.PValue)} (baseline {P(baseP ?? double.NaN)})"),
+            Explanation = Fmt($"residual variance against the features: Koenker LM = {Num(lm.Statistic)} on {q} df (critical {Num(critical)} at α {Level(alpha)}), {P(lm.PValue)} (baseline {P(baseP ?? double.NaN)})"),
             Details = Details(("baseline_aux_r_squared", baseR2)),
         };
     }
@@ -128,17 +135,18 @@ internal static class ResidualShape
             bool positive = d <= 2.0;
             (double conservative, double liberal) = DurbinWatsonBounds.PositiveAutocorrelationPValue((int)m, slopes, positive ? d : 4.0 - d);
             double pdw = Math.Min(1.0, 2.0 * conservative);
+            double level = input.Thresholds.WarningAlpha;
             return new Finding
             {
                 Check = CheckNames.Residuals,
                 Statistic = "durbin_watson",
                 Value = Finite(d),
                 PValue = Finite(pdw),
-                Threshold = input.Thresholds.WarningAlpha,
-                Severity = pdw < input.Thresholds.WarningAlpha ? Severity.Warning : Severity.Ok,
+                Alpha = level,
+                Severity = pdw < level ? Severity.Warning : Severity.Ok,
                 EffectSize = Finite(1.0 - (d / 2.0)),
                 EffectSizeName = "lag1_autocorrelation",
-                Explanation = Fmt($"deployed errors in row order: Durbin–Watson d = {Num(d)} (2 means none; {(positive ? "positive" : "negative")} side), two-sided p between {Num(Math.Min(1.0, 2.0 * liberal))} and {Num(pdw)} by the bounds"),
+                Explanation = Fmt($"deployed errors in row order: Durbin–Watson d = {Num(d)} (2 means none; {(positive ? "positive" : "negative")} side), two-sided p between {Num(Math.Min(1.0, 2.0 * liberal))} and {Num(pdw)} by the bounds; the conservative end, {P(pdw)}, decides (warns only, at α {Level(level)})"),
                 Details = Details(("p_value_liberal", Math.Min(1.0, 2.0 * liberal))),
             };
         }
@@ -147,17 +155,19 @@ internal static class ResidualShape
         StatisticalTest lb = Autocorrelation.LjungBoxFromAutocorrelations(window.Autocorrelations.Take(lags).ToArray(), m);
         double r1 = window.Autocorrelations.Length > 0 ? window.Autocorrelations[0] : double.NaN;
         double alpha = input.RunAlpha();
+        double critical = lags > 0 ? StandardDistributions.ChiSquareUpperQuantile(alpha, lags) : double.NaN;
         return new Finding
         {
             Check = CheckNames.Residuals,
             Statistic = "ljung_box",
             Value = Finite(lb.Statistic),
             PValue = Finite(lb.PValue),
-            Threshold = alpha,
+            Alpha = alpha,
+            Limit = Finite(critical),
             Severity = Grade(lb.PValue, alpha, input.Thresholds.WarningAlpha, Math.Abs(r1) >= 0.1),
             EffectSize = Finite(r1),
             EffectSizeName = "lag1_autocorrelation",
-            Explanation = Fmt($"serial correlation of the deployed errors: lag-1 r = {Num(r1)}, Ljung–Box Q({lags}) = {Num(lb.Statistic)}, {P(lb.PValue)}{(lb.PValue < input.Thresholds.WarningAlpha ? "; while it lasts, other tests' p-values are optimistic" : "")}"),
+            Explanation = Fmt($"serial correlation of the deployed errors: lag-1 r = {Num(r1)}, Ljung–Box Q({lags}) = {Num(lb.Statistic)} (critical {Num(critical)} at α {Level(alpha)}), {P(lb.PValue)}{(lb.PValue < input.Thresholds.WarningAlpha ? "; while it lasts, other tests' p-values are optimistic" : "")}"),
             Details = Details(("durbin_watson", window.DurbinWatson), ("lags", lags)),
         };
     }

@@ -57,14 +57,14 @@ public sealed class ServingCheck : IModelCheck
             Check = Name,
             Statistic = "served_mismatch",
             Value = share,
-            Threshold = critical,
+            Limit = critical,
             Severity = severity,
             RequiresPersistence = false,
             EffectSize = Finite(window.ServedMaximumDifference),
             EffectSizeName = "max_abs_difference",
             Explanation = window.ServedMismatchCount == 0
-                ? Fmt($"all {window.ServedCount} served predictions match the deployed coefficients")
-                : Fmt($"{window.ServedMismatchCount} of {window.ServedCount} served predictions ({Pct(share)}) differ from the deployed coefficients (largest gap {Num(window.ServedMaximumDifference)}, mean {Num(window.ServedMeanDifference)}): production may be serving a stale coefficient file"),
+                ? Fmt($"all {window.ServedCount} served predictions match the deployed coefficients ({Pct(share)} differ; critical at {Share(critical)})")
+                : Fmt($"{window.ServedMismatchCount} of {window.ServedCount} served predictions ({Pct(share)}; critical at {Share(critical)}) differ from the deployed coefficients (largest gap {Num(window.ServedMaximumDifference)}, mean {Num(window.ServedMeanDifference)}): production may be serving a stale coefficient file"),
             Details = Details(("mean_difference", window.ServedMeanDifference), ("max_abs_difference", window.ServedMaximumDifference)),
         };
         return new CheckResult { Check = Name, State = state, Findings = [finding] };

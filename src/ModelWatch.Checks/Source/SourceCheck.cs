@@ -75,7 +75,7 @@ public sealed class SourceCheck : IModelCheck
                     Check = Name,
                     Statistic = "data_age_hours",
                     Value = age,
-                    Threshold = limit,
+                    Limit = limit,
                     Severity = Severity.Critical,
                     RequiresPersistence = false,
                     Details = details,
@@ -85,16 +85,17 @@ public sealed class SourceCheck : IModelCheck
         }
 
         string recovered = memory.ConsecutiveFailures > 0 ? Fmt($"; it read its window again after {memory.ConsecutiveFailures} failed run(s)") : string.Empty;
+        double maxRuns = input.Setting(MaxFailedRuns);
         return Result(state, new Finding
         {
             Check = Name,
             Statistic = "failed_runs",
             Value = 0,
-            Threshold = input.Setting(MaxFailedRuns),
+            Limit = maxRuns,
             Severity = Severity.Ok,
             RequiresPersistence = false,
             Details = details,
-            Explanation = "the run read its window" + recovered,
+            Explanation = Fmt($"the run read its window: 0 failed runs in a row (alert at {maxRuns})") + recovered,
         });
     }
 
@@ -118,16 +119,15 @@ public sealed class SourceCheck : IModelCheck
         double hours = (startedAt - since).TotalHours;
         bool tooMany = failures >= maxRuns;
         bool tooLong = maxHours > 0 && hours >= maxHours;
-        string span = failures == 1 ? "this run failed" : Fmt($"{failures} runs in a row failed since {since:yyyy-MM-ddTHH:mm:ssZ}");
-        string verdict = tooMany || tooLong
-            ? "model " + modelKey + " is not being watched"
-            : Fmt($"alert at {maxRuns} failed runs") + (maxHours > 0 ? Fmt($" or {Num(maxHours)} h") : string.Empty);
+        string span = failures == 1 ? "this run failed (1 in a row)" : Fmt($"{failures} runs in a row failed since {since:yyyy-MM-ddTHH:mm:ssZ}");
+        string limits = Fmt($"alert at {maxRuns} failed runs") + (maxHours > 0 ? Fmt($" or {Num(maxHours)} h") : string.Empty);
+        string verdict = tooMany || tooLong ? "model " + modelKey + " is not being watched (" + limits + ")" : limits;
         return Result(state with { Runs = state.Runs + 1 }, new Finding
         {
             Check = CheckNames.Source,
             Statistic = "failed_runs",
             Value = failures,
-            Threshold = maxRuns,
+            Limit = maxRuns,
             Severity = tooMany || tooLong ? Severity.Critical : Severity.Warning,
             RequiresPersistence = false,
             Details = Details(("failing_hours", hours)),

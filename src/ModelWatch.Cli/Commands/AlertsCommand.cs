@@ -22,14 +22,19 @@ internal static class AlertsCommand
     private static Command List()
     {
         var key = new Argument<string?>("key") { Description = "Only this model's alerts", Arity = ArgumentArity.ZeroOrOne };
-        var state = new Option<string>("--state") { Description = "unresolved (default), open, acknowledged, resolved or all", DefaultValueFactory = _ => "unresolved" };
+        var state = new Option<string>("--state") { Description = "unresolved, open, acknowledged, resolved or all", DefaultValueFactory = _ => "unresolved" };
         state.AcceptOnlyFromAmong("unresolved", "open", "acknowledged", "resolved", "all");
-        var limit = new Option<int>("--limit") { Description = "Newest alerts to show (default 100)", DefaultValueFactory = _ => 100 };
+        var limit = new Option<int>("--limit") { Description = "Newest alerts to show", DefaultValueFactory = _ => 100 };
         var format = FormatOption();
         var database = StoreCommandRunner.DatabaseOption();
         var command = new Command("list", "List alerts, newest first") { key, state, limit, format, database };
         command.SetAction((parse, cancellationToken) => StoreCommandRunner.RunAsync(parse, "alerts list", database, async (databases, output, ct) =>
         {
+            if (parse.GetValue(key) is { } model)
+            {
+                await ModelKeys.RequireAsync(databases, model, ct);
+            }
+
             string? filter = parse.GetValue(state) is "all" ? null : parse.GetValue(state);
             IReadOnlyList<AlertView> alerts = await Repository(databases).ListAsync(parse.GetValue(key), filter, Math.Max(1, parse.GetValue(limit)), ct);
             if (parse.GetValue(format) == OutputFormat.Json)
@@ -53,7 +58,7 @@ internal static class AlertsCommand
                 return ExitCodes.Ok;
             }
 
-            List<string[]> rows = [["ALERT", "MODEL", "CHECK", "SUBJECT", "STATE", "OPENED", "OPENED AS", "LATEST EVIDENCE", "QUIET UNTIL"]];
+            List<string[]> rows = [["ALERT", "MODEL", "CHECK", "SUBJECT", "STATE", "OPENED", "OPENED AS", "QUIET UNTIL", "LATEST EVIDENCE"]];
             rows.AddRange(alerts.Select(a => new[]
             {
                 "#" + a.Id.ToString(CultureInfo.InvariantCulture),
@@ -62,11 +67,11 @@ internal static class AlertsCommand
                 a.Subject ?? "-",
                 a.State,
                 CliJson.Time(a.OpenedAt)!,
-                Opening(a),
-                Latest(a),
+                OpeningInBrief(a),
                 a.QuietUntil is null ? "-" : CliJson.Time(a.QuietUntil)!,
+                Latest(a),
             }));
-            CliJson.WriteTable(output, rows);
+            CliJson.WriteTable(output, rows, freeText: "LATEST EVIDENCE");
             return ExitCodes.Ok;
         }, cancellationToken));
         return command;
@@ -196,6 +201,16 @@ internal static class AlertsCommand
     private static string Opening(AlertView alert) =>
         $"{alert.OpeningSeverity}{Again(alert)}: {alert.OpeningExplanation}";
 
+    // The list keeps the opening evidence to its severity and statistic, so the latest evidence has the room to be read;
+    // `alerts show` and JSON give both explanations whole.
+    private static string OpeningInBrief(AlertView alert)
+    {
+        string statistic = alert.OpeningStatistic is { } name
+            ? " " + name + (alert.OpeningValue is { } v ? " " + v.ToString("G4", CultureInfo.InvariantCulture) : string.Empty)
+            : string.Empty;
+        return $"{alert.OpeningSeverity}{statistic}{(alert.PreviousAlertId is { } previous ? $", again after #{previous.ToString(CultureInfo.InvariantCulture)}" : string.Empty)}";
+    }
+
     private static string Latest(AlertView alert) =>
         alert.Explanation is null ? "-" : $"{alert.LatestSeverity ?? "recorded"}: {alert.Explanation}";
 
@@ -219,11 +234,11 @@ internal static class AlertsCommand
         writer.WriteString("acknowledged_by", alert.AcknowledgedBy);
         CliJson.WriteTime(writer, "resolved_at", alert.ResolvedAt);
         writer.WriteString("resolved_by", alert.ResolvedBy);
-        WriteNullable(writer, "first_run_id", alert.FirstRunId);
-        WriteNullable(writer, "last_run_id", alert.LastRunId);
+        JsonNumbers.Write(writer, "first_run_id", alert.FirstRunId);
+        JsonNumbers.Write(writer, "last_run_id", alert.LastRunId);
         writer.WriteString("note", alert.Note);
-        WriteNullable(writer, "previous_alert", alert.PreviousAlertId);
-        WriteNullable(writer, "baseline_version", alert.BaselineVersion);
+        JsonNumbers.Write(writer, "previous_alert", alert.PreviousAlertId);
+        JsonNumbers.Write(writer, "baseline_version", alert.BaselineVersion);
         CliJson.WriteTime(writer, "quiet_until", alert.QuietUntil);
         writer.WriteStartObject("opening");
         writer.WriteString("severity", alert.OpeningSeverity);
@@ -231,6 +246,8 @@ internal static class AlertsCommand
         JsonNumbers.Write(writer, "value", alert.OpeningValue);
         JsonNumbers.Write(writer, "threshold", alert.OpeningThreshold);
         JsonNumbers.Write(writer, "p_value", alert.OpeningPValue);
+        JsonNumbers.Write(writer, "alpha", alert.OpeningAlpha);
+        JsonNumbers.Write(writer, "limit", alert.OpeningLimit);
         writer.WriteString("explanation", alert.OpeningExplanation);
         writer.WriteEndObject();
         writer.WriteStartObject("latest");
@@ -239,6 +256,8 @@ internal static class AlertsCommand
         JsonNumbers.Write(writer, "value", alert.Value);
         JsonNumbers.Write(writer, "threshold", alert.Threshold);
         JsonNumbers.Write(writer, "p_value", alert.PValue);
+        JsonNumbers.Write(writer, "alpha", alert.Alpha);
+        JsonNumbers.Write(writer, "limit", alert.Limit);
         writer.WriteString("explanation", alert.Explanation);
         writer.WriteEndObject();
 
@@ -256,12 +275,15 @@ internal static class AlertsCommand
                 writer.WriteString("transition", entry.Transition);
                 writer.WriteString("severity", entry.Severity);
                 writer.WriteString("state", entry.State);
-                WriteNullable(writer, "run_id", entry.RunId);
+                JsonNumbers.Write(writer, "run_id", entry.RunId);
                 writer.WriteString("actor", entry.Actor);
                 CliJson.WriteTime(writer, "at", entry.At);
                 writer.WriteString("statistic", entry.Statistic);
                 JsonNumbers.Write(writer, "value", entry.Value);
                 JsonNumbers.Write(writer, "threshold", entry.Threshold);
+                JsonNumbers.Write(writer, "p_value", entry.PValue);
+                JsonNumbers.Write(writer, "alpha", entry.Alpha);
+                JsonNumbers.Write(writer, "limit", entry.Limit);
                 writer.WriteString("explanation", entry.Explanation);
                 writer.WriteStartArray("notifications");
                 foreach (NotificationStatus notification in entry.Notifications)
@@ -283,19 +305,5 @@ internal static class AlertsCommand
         }
 
         writer.WriteEndObject();
-    }
-
-    private static void WriteNullable(Utf8JsonWriter writer, string name, int? value) => WriteNullable(writer, name, (long?)value);
-
-    private static void WriteNullable(Utf8JsonWriter writer, string name, long? value)
-    {
-        if (value is { } v)
-        {
-            writer.WriteNumber(name, v);
-        }
-        else
-        {
-            writer.WriteNull(name);
-        }
     }
 }

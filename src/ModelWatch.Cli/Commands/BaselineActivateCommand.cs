@@ -17,6 +17,7 @@ internal static class BaselineActivateCommand
         var command = new Command("activate", "Make a stored baseline version the one the model is watched against") { key, version, keepAlerts, database };
         command.SetAction((parse, cancellationToken) => StoreCommandRunner.RunAsync(parse, "baseline activate", database, async (databases, output, ct) =>
         {
+            await ModelKeys.RequireAsync(databases, parse.GetRequiredValue(key), ct);
             string model = parse.GetRequiredValue(key);
             var activation = new BaselineActivation(databases.State, TimeProvider.System, StoreCommandRunner.CommandTimeout);
             ActivationOutcome outcome = await activation.ActivateAsync(model, parse.GetValue(version), StoreCommandRunner.Actor, parse.GetValue(keepAlerts), ct);

@@ -24,6 +24,7 @@ internal static class BaselineDiffCommand
         var command = new Command("diff", "Compare two baseline versions term by term") { key, first, second, format, database };
         command.SetAction((parse, cancellationToken) => StoreCommandRunner.RunAsync(parse, "baseline diff", database, async (databases, output, ct) =>
         {
+            await ModelKeys.RequireAsync(databases, parse.GetRequiredValue(key), ct);
             string model = parse.GetRequiredValue(key);
             var repository = new BaselineRepository(databases.State, TimeProvider.System, StoreCommandRunner.CommandTimeout);
             BaselineVersions versions = await BaselineOutput.VersionsAsync(repository, model, ct);

@@ -18,6 +18,7 @@ internal static class BaselineFitCommand
         var command = new Command("fit", "Fit a baseline on a reference window read from the model's data source; it becomes the active version") { key, from, to, keepAlerts, database };
         command.SetAction((parse, cancellationToken) => StoreCommandRunner.RunAsync(parse, "baseline fit", database, async (databases, output, ct) =>
         {
+            await ModelKeys.RequireAsync(databases, parse.GetRequiredValue(key), ct);
             DateTimeOffset start = parse.GetValue(from)!.Value;
             DateTimeOffset end = parse.GetValue(to)!.Value;
             var service = new BaselineService(databases, TimeProvider.System, StoreCommandRunner.CommandTimeout);

@@ -20,6 +20,7 @@ internal static class BaselineImportCommand
         var command = new Command("import", "Import deployed coefficients from a training pipeline; they become the active version") { key, file, from, to, keepAlerts, database };
         command.SetAction((parse, cancellationToken) => StoreCommandRunner.RunAsync(parse, "baseline import", database, async (databases, output, ct) =>
         {
+            await ModelKeys.RequireAsync(databases, parse.GetRequiredValue(key), ct);
             FileInfo input = parse.GetRequiredValue(file);
             DateTimeOffset? start = parse.GetValue(from);
             DateTimeOffset? end = parse.GetValue(to);

@@ -17,6 +17,7 @@ internal static class BaselineListCommand
         var command = new Command("list", "List a model's baseline versions and which one is active") { key, format, database };
         command.SetAction((parse, cancellationToken) => StoreCommandRunner.RunAsync(parse, "baseline list", database, async (databases, output, ct) =>
         {
+            await ModelKeys.RequireAsync(databases, parse.GetRequiredValue(key), ct);
             string model = parse.GetRequiredValue(key);
             var repository = new BaselineRepository(databases.State, TimeProvider.System, StoreCommandRunner.CommandTimeout);
             BaselineVersions versions = await BaselineOutput.VersionsAsync(repository, model, ct);

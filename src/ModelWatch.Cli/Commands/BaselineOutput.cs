@@ -12,7 +12,7 @@ internal static class BaselineOutput
 {
     public static Option<bool> KeepAlertsOption() => new("--keep-alerts")
     {
-        Description = "Leave open the model's alerts raised against another baseline version (by default they are resolved as 'superseded')",
+        Description = "Leave open the model's alerts raised against another baseline version; without it they are resolved as 'superseded'",
     };
 
     /// <summary>The model's versions, or a "no model" error (exit 3).</summary>

@@ -23,6 +23,7 @@ internal static class BaselineShowCommand
         var command = new Command("show", "Show one baseline version: coefficients, reference statistics and the tests it enables") { key, version, format, database };
         command.SetAction((parse, cancellationToken) => StoreCommandRunner.RunAsync(parse, "baseline show", database, async (databases, output, ct) =>
         {
+            await ModelKeys.RequireAsync(databases, parse.GetRequiredValue(key), ct);
             string model = parse.GetRequiredValue(key);
             var repository = new BaselineRepository(databases.State, TimeProvider.System, StoreCommandRunner.CommandTimeout);
             BaselineVersions versions = await BaselineOutput.VersionsAsync(repository, model, ct);

@@ -39,11 +39,7 @@ internal static class ModelListCommand
                 m.BaselineVersion is null ? "none" : m.HasCompatibleBaseline ? $"v{m.BaselineVersion}" : $"v{m.BaselineVersion} (incompatible)",
                 CliJson.Time(m.NextDueSlot) ?? "-",
             })];
-            int[] widths = [.. Enumerable.Range(0, header.Length).Select(c => rows.Max(r => r[c].Length))];
-            foreach (string[] row in rows)
-            {
-                output.WriteLine(string.Join("  ", row.Select((cell, c) => cell.PadRight(widths[c]))).TrimEnd());
-            }
+            CliJson.WriteTable(output, rows);
 
             return ExitCodes.Ok;
         }, cancellationToken));
@@ -58,13 +54,7 @@ internal static class ModelListCommand
         var command = new Command("show", "Show one model: its stored spec, state and baseline") { key, format, database };
         command.SetAction((parse, cancellationToken) => StoreCommandRunner.RunAsync(parse, "model show", database, async (databases, output, ct) =>
         {
-            string name = parse.GetRequiredValue(key);
-            ModelRecord? model = await new ModelRepository(databases.State, TimeProvider.System, StoreCommandRunner.CommandTimeout).GetAsync(name, ct);
-            if (model is null)
-            {
-                parse.InvocationConfiguration.Error.WriteLine($"modelwatch model show: no model '{name}'");
-                return ExitCodes.RuntimeError;
-            }
+            ModelRecord model = await ModelKeys.RequireAsync(databases, parse.GetRequiredValue(key), ct);
 
             IReadOnlyList<QuietPeriod> quiet = await new QuietPeriodRepository(databases.State, StoreCommandRunner.CommandTimeout).ListAsync(false, model.Key, TimeProvider.System.GetUtcNow(), ct);
             if (parse.GetValue(format) == OutputFormat.Json)

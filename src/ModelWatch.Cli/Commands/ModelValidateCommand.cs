@@ -1,5 +1,4 @@
 using System.CommandLine;
-using ModelWatch.Store.Models;
 using ModelWatch.Store.Specs;
 using ModelWatch.Store.Windows;
 
@@ -26,8 +25,12 @@ internal static class ModelValidateCommand
             }
             else
             {
-                spec = (await new ModelRepository(databases.State, TimeProvider.System, StoreCommandRunner.CommandTimeout).GetAsync(value, ct))?.Spec
-                    ?? throw new FormatException($"'{value}' is neither a spec file nor a registered model");
+                if (value.Contains('/', StringComparison.Ordinal) || value.EndsWith(".yaml", StringComparison.OrdinalIgnoreCase) || value.EndsWith(".yml", StringComparison.OrdinalIgnoreCase))
+                {
+                    throw new FormatException($"{value}: no such spec file");
+                }
+
+                spec = (await ModelKeys.RequireAsync(databases, value, ct)).Spec;
             }
 
             (DateTimeOffset start, DateTimeOffset end) = spec.WindowForSlot(spec.Schedule.SlotAtOrBefore(TimeProvider.System.GetUtcNow()) ?? TimeProvider.System.GetUtcNow());

@@ -5,7 +5,6 @@ using ModelWatch.Checks.Evaluation;
 using ModelWatch.Cli.Operations;
 using ModelWatch.Cli.Output;
 using ModelWatch.Daemon.Alerts;
-using ModelWatch.Store.Models;
 using ModelWatch.Store.Specs;
 
 namespace ModelWatch.Cli.Commands;
@@ -47,11 +46,7 @@ internal static class QuietCommand
             DateTimeOffset now = TimeProvider.System.GetUtcNow();
             string model = parse.GetRequiredValue(key);
             string? checkName = parse.GetValue(check);
-            if (await UnknownModelAsync(databases, model, ct) is { } unknownModel)
-            {
-                error.WriteLine("modelwatch quiet: " + unknownModel);
-                return ExitCodes.RuntimeError;
-            }
+            await ModelKeys.RequireAsync(databases, model, ct);
 
             if (checkName is not null && CheckRegistry.Find(checkName) is null)
             {
@@ -105,10 +100,9 @@ internal static class QuietCommand
         command.SetAction((parse, cancellationToken) => StoreCommandRunner.RunAsync(parse, "quiet list", database, async (databases, output, ct) =>
         {
             DateTimeOffset now = TimeProvider.System.GetUtcNow();
-            if (parse.GetValue(model) is { } key && await UnknownModelAsync(databases, key, ct) is { } unknown)
+            if (parse.GetValue(model) is { } key)
             {
-                parse.InvocationConfiguration.Error.WriteLine("modelwatch quiet list: " + unknown);
-                return ExitCodes.RuntimeError;
+                await ModelKeys.RequireAsync(databases, key, ct);
             }
 
             IReadOnlyList<QuietPeriod> periods = await Repository(databases).ListAsync(parse.GetValue(all), parse.GetValue(model), now, ct);
@@ -186,20 +180,6 @@ internal static class QuietCommand
 
         writer.WriteEndArray();
         writer.WriteEndObject();
-    }
-
-    /// <summary>Null when the model is registered; otherwise the message, naming the registered keys.</summary>
-    private static async Task<string?> UnknownModelAsync(ModelWatch.Store.Configuration.StoreDataSources databases, string key, CancellationToken cancellationToken)
-    {
-        IReadOnlyList<ModelRecord> models = await new ModelRepository(databases.State, TimeProvider.System, StoreCommandRunner.CommandTimeout).ListAsync(cancellationToken);
-        if (models.Any(m => m.Key == key))
-        {
-            return null;
-        }
-
-        return models.Count == 0
-            ? $"no model '{TerminalText.Clean(key)}'; no model is registered"
-            : $"no model '{TerminalText.Clean(key)}'; the registered models are {string.Join(", ", models.Select(m => m.Key))}";
     }
 
     private static QuietPeriodRepository Repository(ModelWatch.Store.Configuration.StoreDataSources databases) =>

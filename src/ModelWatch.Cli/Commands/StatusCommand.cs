@@ -87,25 +87,13 @@ internal static class StatusCommand
             writer.WriteNumber("critical", model.OpenCritical);
             writer.WriteEndObject();
             CliJson.WriteTime(writer, "quiet_until", model.QuietUntil);
-            WriteNullable(writer, "baseline_version", model.BaselineVersion);
-            WriteNullable(writer, "baseline_age_days", model.BaselineAgeDays(now));
+            JsonNumbers.Write(writer, "baseline_version", model.BaselineVersion);
+            JsonNumbers.Write(writer, "baseline_age_days", model.BaselineAgeDays(now));
             writer.WriteNumber("failing_runs", model.FailingRuns);
             writer.WriteEndObject();
         }
 
         writer.WriteEndArray();
         writer.WriteEndObject();
-    }
-
-    private static void WriteNullable(Utf8JsonWriter writer, string name, int? value)
-    {
-        if (value is { } v)
-        {
-            writer.WriteNumber(name, v);
-        }
-        else
-        {
-            writer.WriteNull(name);
-        }
     }
 }

@@ -69,7 +69,7 @@ internal static class StoreCommandRunner
             error.WriteLine($"modelwatch {name}: cannot reach the state database: {ex.Message}");
             return ExitCodes.RuntimeError;
         }
-        catch (Exception ex) when (ex is StoreConfigurationException or MigrationException or WindowReadException or BaselineException or FormatException or PostgresException or IOException)
+        catch (Exception ex) when (ex is ModelNotFoundException or StoreConfigurationException or MigrationException or WindowReadException or BaselineException or FormatException or PostgresException or IOException)
         {
             error.WriteLine($"modelwatch {name}: {ex.Message}");
             return ExitCodes.RuntimeError;

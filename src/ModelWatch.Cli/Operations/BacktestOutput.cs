@@ -47,15 +47,17 @@ internal static class BacktestOutput
         int skipped = windows.Count(w => w.Status == "skipped");
         output.WriteLine(string.Create(CultureInfo.InvariantCulture,
             $"backtest of {model.Key}: {windows.Count} window(s), slots {CliJson.Time(windows[0].Slot)} to {CliJson.Time(windows[^1].Slot)} every {every?.ToString() ?? model.Spec.Schedule.Text}; {skipped} skipped, {failed} failed; nothing was written"));
+        // Every window follows from its slot, so the table names the rule once instead of two times per row.
+        output.WriteLine(string.Create(CultureInfo.InvariantCulture,
+            $"each slot reads the {model.Spec.Window} window that ends {(model.Spec.LabelDelay.Length == TimeSpan.Zero ? "at the slot" : $"{model.Spec.LabelDelay} before it")} (each window's times: --format json)"));
         output.WriteLine();
-        List<string[]> rows = [["SLOT", "WINDOW", "STATUS", "WORST", "WARNINGS", "CRITICALS", "WORST FINDING"]];
+        List<string[]> rows = [["SLOT", "STATUS", "WORST", "WARN", "CRIT", "WORST FINDING"]];
         rows.AddRange(windows.Select(w =>
         {
             FindingLine? top = w.Findings.Count > 0 ? w.Findings[0] : null;
             return new[]
             {
                 CliJson.Time(w.Slot)!,
-                w.Start is null ? "-" : $"{CliJson.Time(w.Start)} → {CliJson.Time(w.End)}",
                 w.Status,
                 top is null ? "-" : top.SeverityName,
                 Count(w, Checks.Findings.Severity.Warning),
@@ -63,7 +65,7 @@ internal static class BacktestOutput
                 w.Status != "ok" ? w.Reason ?? string.Empty : top is null ? "-" : $"{top.Check}{(top.Subject is null ? string.Empty : "/" + top.Subject)} {top.Statistic} = {CheckOutput.Number(top.Value)}",
             };
         }));
-        Terminal.WriteTable(output, rows);
+        Terminal.WriteTable(output, rows, freeText: "WORST FINDING");
         output.WriteLine();
         if (alerts.Count == 0)
         {

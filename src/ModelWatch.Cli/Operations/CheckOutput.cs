@@ -32,12 +32,14 @@ internal static class CheckOutput
         if (findings.Count > 0)
         {
             output.WriteLine();
-            List<string[]> rows = [["CHECK", "SUBJECT", "SEVERITY", "STATISTIC", "VALUE", "THRESHOLD", "EXPLANATION"]];
+            // The budgeted alpha is the same for every test of a run, so the table leaves it to --format json and explain
+            // and keeps what differs from row to row: the value against its limit, and the p-value.
+            List<string[]> rows = [["CHECK", "SEVERITY", "STATISTIC", "VALUE", "LIMIT", "P", "EXPLANATION"]];
             rows.AddRange(findings.Select(f => new[]
             {
-                f.Check, f.Subject ?? "-", f.SeverityName, f.Statistic, Number(f.Value), Number(f.Threshold), f.Explanation,
+                f.Check + (f.Subject is null ? string.Empty : "/" + f.Subject), f.SeverityName, f.Statistic, Number(f.Value), Number(f.Limit), Probability(f.PValue), f.Explanation,
             }));
-            Terminal.WriteTable(output, rows);
+            Terminal.WriteTable(output, rows, freeText: "EXPLANATION");
         }
 
         if (skipped.Count > 0)
@@ -46,6 +48,18 @@ internal static class CheckOutput
             output.WriteLine("skipped tests: " + string.Join(", ", skipped.Select(s => string.Create(CultureInfo.InvariantCulture, $"{s.Value} {s.Key}"))));
         }
     }
+
+    /// <summary>
+    /// A p-value in two significant digits, one below 0.001 (<c>0.47</c>, <c>0.0031</c>, <c>1e-5</c>): the order of magnitude is what is read, and
+    /// below 1e-9 (where the explanations say "p &lt; 1e-9") the digits are beyond what the model's assumptions support.
+    /// </summary>
+    public static string Probability(double? value) => value switch
+    {
+        { } v when double.IsFinite(v) && v < 1e-9 => "<1e-9",
+        { } v when double.IsFinite(v) && v >= 0.001 => v.ToString("G2", CultureInfo.InvariantCulture),
+        { } v when double.IsFinite(v) => v.ToString("0e0", CultureInfo.InvariantCulture),
+        _ => "-",
+    };
 
     public static string Number(double? value) =>
         value is { } v && double.IsFinite(v) ? v.ToString("G4", CultureInfo.InvariantCulture) : "-";

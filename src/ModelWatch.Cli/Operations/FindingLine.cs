@@ -8,7 +8,7 @@ namespace ModelWatch.Cli.Operations;
 /// A finding as <c>check</c> and <c>backtest</c> print it. Only tests that ran are listed: a skipped test is never
 /// shown as <c>ok</c> (docs/checks.md); skipped tests are counted separately with their reasons.
 /// </summary>
-internal sealed record FindingLine(string Check, string? Subject, Severity Severity, string Statistic, double? Value, double? Threshold, string Explanation)
+internal sealed record FindingLine(string Check, string? Subject, Severity Severity, string Statistic, double? Value, double? Threshold, double? PValue, double? Alpha, double? Limit, string Explanation)
 {
     public string SeverityName => NameOf(Severity);
 
@@ -26,7 +26,7 @@ internal sealed record FindingLine(string Check, string? Subject, Severity Sever
             .OrderByDescending(f => f.Severity)
             .ThenBy(f => f.Check, StringComparer.Ordinal)
             .ThenBy(f => f.Subject ?? string.Empty, StringComparer.Ordinal)
-            .Select(f => new FindingLine(f.Check, f.Subject, f.Severity, f.Statistic, f.Value, f.Threshold, f.Explanation))];
+            .Select(f => new FindingLine(f.Check, f.Subject, f.Severity, f.Statistic, f.Value, f.Threshold, f.PValue, f.Alpha, f.Limit, f.Explanation))];
 
     /// <summary>Skipped tests by reason, for the table's note.</summary>
     public static IReadOnlyDictionary<string, int> Skipped(IEnumerable<CheckResult> results) =>
@@ -51,6 +51,10 @@ internal sealed record FindingLine(string Check, string? Subject, Severity Sever
             writer.WriteString("statistic", line.Statistic);
             JsonNumbers.Write(writer, "value", line.Value);
             JsonNumbers.Write(writer, "threshold", line.Threshold);
+            JsonNumbers.Write(writer, "p_value", line.PValue);
+            JsonNumbers.Write(writer, "alpha", line.Alpha);
+            JsonNumbers.Write(writer, "limit", line.Limit);
+            writer.WriteString("explanation", line.Explanation);
             writer.WriteEndObject();
         }
 

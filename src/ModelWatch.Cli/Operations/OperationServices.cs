@@ -89,10 +89,9 @@ internal sealed class OperationServices : IAsyncDisposable
             }
         }, cancellationToken);
 
-    /// <summary>The registered model, or an error that says how to find the keys.</summary>
-    public async Task<ModelRecord> ModelAsync(string key, CancellationToken cancellationToken) =>
-        await Models.GetAsync(key, cancellationToken)
-        ?? throw new OperationException($"model {key} is not registered (see 'modelwatch model list')");
+    /// <summary>The registered model, or <see cref="ModelNotFoundException"/> naming the closest key (exit code 3).</summary>
+    public Task<ModelRecord> ModelAsync(string key, CancellationToken cancellationToken) =>
+        ModelKeys.RequireAsync(Models, key, cancellationToken);
 
     /// <summary>The live run memory of a model, copied into process memory so that nothing is written back.</summary>
     public async Task<InMemoryRunMemory> LiveMemoryAsync(string key, CancellationToken cancellationToken)

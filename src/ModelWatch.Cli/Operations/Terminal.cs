@@ -4,7 +4,7 @@ using Spectre.Console;
 namespace ModelWatch.Cli.Operations;
 
 /// <summary>
-/// Spectre.Console tables and progress when a person is watching the process's own terminal, plain aligned text
+/// Coloured tables and progress when a person is watching the process's own terminal, plain aligned text
 /// otherwise (a pipe, a file, a test's writer), so scripts never receive escape codes.
 /// </summary>
 internal static class Terminal
@@ -12,29 +12,12 @@ internal static class Terminal
     /// <summary>True when <paramref name="output"/> is the process's standard output and that is a terminal.</summary>
     public static bool IsTerminal(TextWriter output) => ReferenceEquals(output, Console.Out) && !Console.IsOutputRedirected;
 
-    /// <summary>Prints rows (the first is the header) as a table; severity words are coloured on a terminal.</summary>
-    public static void WriteTable(TextWriter output, IReadOnlyList<string[]> rows)
-    {
-        if (!IsTerminal(output))
-        {
-            CliJson.WriteTable(output, rows);
-            return;
-        }
-
-        rows = [.. rows.Select(r => r.Select(c => TerminalText.Clean(c) ?? string.Empty).ToArray())];
-        var table = new Table().Border(TableBorder.Simple);
-        foreach (string header in rows[0])
-        {
-            table.AddColumn(new TableColumn(Markup.Escape(header)));
-        }
-
-        foreach (string[] row in rows.Skip(1))
-        {
-            table.AddRow([.. row.Select(cell => new Markup(Colour(cell)))]);
-        }
-
-        AnsiConsole.Write(table);
-    }
+    /// <summary>
+    /// Prints rows (the first is the header) as a table that fits the terminal (see <see cref="TextTable"/>);
+    /// <paramref name="freeText"/> is the header of the column whose long text may be shortened with an ellipsis.
+    /// </summary>
+    public static void WriteTable(TextWriter output, IReadOnlyList<string[]> rows, string? freeText = null) =>
+        TextTable.Write(output, rows, freeText);
 
     /// <summary>
     /// Runs <paramref name="body"/>, which calls its argument once per finished step. A progress bar is drawn on
@@ -58,12 +41,4 @@ internal static class Terminal
                 await body(() => task.Increment(1));
             });
     }
-
-    private static string Colour(string cell) => cell switch
-    {
-        "critical" => "[red]critical[/]",
-        "warning" => "[yellow]warning[/]",
-        "ok" => "[green]ok[/]",
-        _ => Markup.Escape(cell),
-    };
 }

@@ -1,5 +1,6 @@
 using System.Globalization;
 using System.Text;
+using System.Text.Encodings.Web;
 using System.Text.Json;
 
 namespace ModelWatch.Cli.Output;
@@ -7,10 +8,19 @@ namespace ModelWatch.Cli.Output;
 /// <summary>Shared JSON and time formatting for command output: indented JSON, RFC 3339 UTC times with <c>Z</c>.</summary>
 internal static class CliJson
 {
+    /// <summary>
+    /// The writer settings of every JSON document the command line prints: indented, and escaping only what JSON
+    /// requires (quotes, backslashes, control characters), so "+69 %", "a > b", "the window's" and "×43" read as
+    /// written. The default encoder also escapes <c>+ &lt; &gt; ' &amp;</c> and every non-ASCII letter so that JSON
+    /// can be pasted into HTML safely; this output goes to terminals, files and scripts, never into a web page, so
+    /// the relaxed encoder is safe here.
+    /// </summary>
+    public static readonly JsonWriterOptions Options = new() { Indented = true, Encoder = JavaScriptEncoder.UnsafeRelaxedJsonEscaping };
+
     public static void Write(TextWriter output, Action<Utf8JsonWriter> write)
     {
         using var buffer = new MemoryStream();
-        using (var writer = new Utf8JsonWriter(buffer, new JsonWriterOptions { Indented = true }))
+        using (var writer = new Utf8JsonWriter(buffer, Options))
         {
             write(writer);
         }
@@ -36,15 +46,7 @@ internal static class CliJson
         }
     }
 
-    /// <summary>Prints rows as aligned columns, the first row being the header.</summary>
-    public static void WriteTable(TextWriter output, IReadOnlyList<string[]> cells)
-    {
-        ArgumentNullException.ThrowIfNull(cells);
-        string[][] rows = [.. cells.Select(r => r.Select(c => TerminalText.Clean(c) ?? string.Empty).ToArray())];
-        int[] widths = [.. Enumerable.Range(0, rows[0].Length).Select(c => rows.Max(r => r[c].Length))];
-        foreach (string[] row in rows)
-        {
-            output.WriteLine(string.Join("  ", row.Select((cell, c) => cell.PadRight(widths[c]))).TrimEnd());
-        }
-    }
+    /// <summary>Prints rows as aligned columns, the first row being the header (see <see cref="TextTable"/>).</summary>
+    public static void WriteTable(TextWriter output, IReadOnlyList<string[]> cells, string? freeText = null) =>
+        TextTable.Write(output, cells, freeText);
 }

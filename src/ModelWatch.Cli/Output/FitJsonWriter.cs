@@ -11,7 +11,7 @@ internal static class FitJsonWriter
 {
     public static void Write(Stream output, FitSummary fit)
     {
-        using var writer = new Utf8JsonWriter(output, new JsonWriterOptions { Indented = true });
+        using var writer = new Utf8JsonWriter(output, CliJson.Options);
         writer.WriteStartObject();
         writer.WriteNumber("n", fit.RowCount);
         writer.WriteNumber("p", fit.ParameterCount);

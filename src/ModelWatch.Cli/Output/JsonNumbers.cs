@@ -2,7 +2,7 @@ using System.Text.Json;
 
 namespace ModelWatch.Cli.Output;
 
-/// <summary>Writes doubles so that they round-trip exactly, and non-finite values as JSON null.</summary>
+/// <summary>Writes doubles so that they round-trip exactly, non-finite values as JSON null, and missing ids or counts as null.</summary>
 internal static class JsonNumbers
 {
     public static void Write(Utf8JsonWriter writer, string name, double? value)
@@ -21,6 +21,18 @@ internal static class JsonNumbers
         else
         {
             writer.WriteNullValue();
+        }
+    }
+
+    public static void Write(Utf8JsonWriter writer, string name, long? value)
+    {
+        if (value is { } v)
+        {
+            writer.WriteNumber(name, v);
+        }
+        else
+        {
+            writer.WriteNull(name);
         }
     }
 }

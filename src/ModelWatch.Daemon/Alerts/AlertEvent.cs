@@ -10,7 +10,7 @@ namespace ModelWatch.Daemon.Alerts;
 /// <param name="State">State after the transition: <c>open</c>, <c>acknowledged</c>, <c>resolved</c>.</param>
 /// <param name="Statistic">Name of the statistic that decided it.</param>
 /// <param name="Value">The statistic's value.</param>
-/// <param name="Threshold">The threshold it was compared with.</param>
+/// <param name="Threshold">The evidence finding's threshold: its alpha when a p-value graded it, else its limit.</param>
 /// <param name="Explanation">The one-line explanation of the finding.</param>
 /// <param name="At">When the transition happened.</param>
 public sealed record AlertEvent(
@@ -32,6 +32,15 @@ public sealed record AlertEvent(
 
     /// <summary>For an <c>opened</c> alert whose condition came back after resolution, the alert before it; otherwise null.</summary>
     public long? PreviousAlertId { get; init; }
+
+    /// <summary>The evidence finding's p-value, or null when it has none.</summary>
+    public double? PValue { get; init; }
+
+    /// <summary>The significance level the evidence finding's p-value was graded at, or null.</summary>
+    public double? Alpha { get; init; }
+
+    /// <summary>The value the evidence finding's statistic was compared with, in its own units, or null.</summary>
+    public double? Limit { get; init; }
 
     /// <summary>The evidence page of this alert when <c>Web:PublicBaseUrl</c> is set; otherwise null.</summary>
     public string? EvidenceUrl { get; init; }

@@ -36,6 +36,9 @@ public sealed class AlertEventLogger(ILogger<AlertEventLogger> logger)
             new(TelemetryNames.StatisticTag, alert.Statistic),
             new(TelemetryNames.ValueTag, alert.Value),
             new(TelemetryNames.ThresholdTag, alert.Threshold),
+            new(TelemetryNames.PValueTag, alert.PValue),
+            new(TelemetryNames.AlphaTag, alert.Alpha),
+            new(TelemetryNames.LimitTag, alert.Limit),
         };
         if (alert.PreviousAlertId is { } previous)
         {

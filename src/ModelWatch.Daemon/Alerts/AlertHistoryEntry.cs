@@ -33,6 +33,15 @@ public sealed class AlertHistoryEntry
     /// <summary>Its threshold.</summary>
     public double? Threshold { get; set; }
 
+    /// <summary>The evidence's p-value, where the test has one.</summary>
+    public double? PValue { get; set; }
+
+    /// <summary>The level that p-value was graded at, where there is one.</summary>
+    public double? Alpha { get; set; }
+
+    /// <summary>The value the statistic was compared with, where there is one.</summary>
+    public double? Limit { get; set; }
+
     /// <summary>Explanation or operator note.</summary>
     public string Explanation { get; set; } = string.Empty;
 

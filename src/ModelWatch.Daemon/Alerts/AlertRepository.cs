@@ -20,20 +20,23 @@ public sealed class AlertRepository(NpgsqlDataSource dataSource, TimeSpan comman
                a.resolved_at AS ResolvedAt, a.resolved_by AS ResolvedBy, a.first_run_id AS FirstRunId, a.last_run_id AS LastRunId, a.note AS Note,
                a.previous_alert_id AS PreviousAlertId, a.baseline_version AS BaselineVersion,
                COALESCE(o.severity, a.severity) AS OpeningSeverity, o.statistic AS OpeningStatistic, o.value AS OpeningValue,
-               o.threshold AS OpeningThreshold, o.p_value AS OpeningPValue, COALESCE(o.explanation, '') AS OpeningExplanation,
+               o.threshold AS OpeningThreshold, o.p_value AS OpeningPValue, o.alpha AS OpeningAlpha, o.limit_value AS OpeningLimit,
+               COALESCE(o.explanation, '') AS OpeningExplanation,
                f.severity AS LatestSeverity,
                COALESCE(f.statistic, e.statistic) AS Statistic, CASE WHEN f.statistic IS NULL THEN e.value ELSE f.value END AS Value,
                CASE WHEN f.statistic IS NULL THEN e.threshold ELSE f.threshold END AS Threshold,
                CASE WHEN f.statistic IS NULL THEN e.p_value ELSE f.p_value END AS PValue,
+               CASE WHEN f.statistic IS NULL THEN e.alpha ELSE f.alpha END AS Alpha,
+               CASE WHEN f.statistic IS NULL THEN e.limit_value ELSE f.limit_value END AS "Limit",
                COALESCE(f.explanation, e.explanation) AS Explanation,
                q.until AS QuietUntil
           FROM modelwatch.alert a
-          LEFT JOIN LATERAL (SELECT severity, statistic, value, threshold, p_value, explanation FROM modelwatch.alert_event
+          LEFT JOIN LATERAL (SELECT severity, statistic, value, threshold, p_value, alpha, limit_value, explanation FROM modelwatch.alert_event
                               WHERE alert_id = a.id ORDER BY id LIMIT 1) o ON true
-          LEFT JOIN LATERAL (SELECT severity, statistic, value, threshold, p_value, explanation FROM modelwatch.finding
+          LEFT JOIN LATERAL (SELECT severity, statistic, value, threshold, p_value, alpha, limit_value, explanation FROM modelwatch.finding
                               WHERE run_id = a.last_run_id AND check_name = a.check_name AND subject IS NOT DISTINCT FROM a.subject
                               ORDER BY CASE severity WHEN 'critical' THEN 2 WHEN 'warning' THEN 1 ELSE 0 END DESC, id LIMIT 1) f ON true
-          LEFT JOIN LATERAL (SELECT statistic, value, threshold, p_value, explanation FROM modelwatch.alert_event
+          LEFT JOIN LATERAL (SELECT statistic, value, threshold, p_value, alpha, limit_value, explanation FROM modelwatch.alert_event
                               WHERE alert_id = a.id AND statistic IS NOT NULL ORDER BY id DESC LIMIT 1) e ON true
           LEFT JOIN LATERAL (SELECT max(until) AS until FROM modelwatch.quiet_period
                               WHERE model_key = a.model_key AND (check_name IS NULL OR check_name = a.check_name)
@@ -71,7 +74,8 @@ public sealed class AlertRepository(NpgsqlDataSource dataSource, TimeSpan comman
         var rows = (await connection.QueryAsync<AlertHistoryEntry>(new CommandDefinition(
             """
             SELECT id AS EventId, transition AS Transition, severity AS Severity, state AS State, run_id AS RunId, actor AS Actor, at AS At,
-                   statistic AS Statistic, value AS Value, threshold AS Threshold, explanation AS Explanation
+                   statistic AS Statistic, value AS Value, threshold AS Threshold, p_value AS PValue, alpha AS Alpha, limit_value AS "Limit",
+                   explanation AS Explanation
               FROM modelwatch.alert_event WHERE alert_id = @id ORDER BY id
             """,
             new { id },

@@ -72,6 +72,12 @@ public sealed class AlertView
     /// <summary>Its p-value, where the test has one.</summary>
     public double? OpeningPValue { get; set; }
 
+    /// <summary>The level its p-value was graded at, where there is one.</summary>
+    public double? OpeningAlpha { get; set; }
+
+    /// <summary>The value its statistic was compared with, where there is one.</summary>
+    public double? OpeningLimit { get; set; }
+
     /// <summary>The opening explanation.</summary>
     public string OpeningExplanation { get; set; } = string.Empty;
 
@@ -80,6 +86,12 @@ public sealed class AlertView
 
     /// <summary>The latest evidence's p-value, where the test has one.</summary>
     public double? PValue { get; set; }
+
+    /// <summary>The level the latest evidence's p-value was graded at, where there is one.</summary>
+    public double? Alpha { get; set; }
+
+    /// <summary>The value the latest evidence's statistic was compared with, where there is one.</summary>
+    public double? Limit { get; set; }
 
     /// <summary>The end of the quiet period holding this alert's notifications now, or null.</summary>
     public DateTime? QuietUntil { get; set; }

@@ -46,7 +46,7 @@ public sealed class NotificationDispatcher(
     private const string EventsSql = """
         SELECT e.id AS EventId, e.alert_id AS AlertId, e.transition AS Transition, a.model_key AS Model, a.check_name AS CheckName,
                a.subject AS Subject, e.severity AS Severity, e.state AS State, e.statistic AS Statistic, e.value AS Value,
-               e.threshold AS Threshold, e.explanation AS Explanation, e.at AS At,
+               e.threshold AS Threshold, e.p_value AS PValue, e.alpha AS Alpha, e.limit_value AS Limit, e.explanation AS Explanation, e.at AS At,
                CASE WHEN e.transition = 'opened' THEN a.previous_alert_id END AS PreviousAlertId
           FROM modelwatch.alert_event e
           JOIN modelwatch.alert a ON a.id = e.alert_id
@@ -255,6 +255,12 @@ public sealed class NotificationDispatcher(
 
         public double? Threshold { get; set; }
 
+        public double? PValue { get; set; }
+
+        public double? Alpha { get; set; }
+
+        public double? Limit { get; set; }
+
         public string Explanation { get; set; } = string.Empty;
 
         public DateTime At { get; set; }
@@ -267,6 +273,9 @@ public sealed class NotificationDispatcher(
         {
             EventId = EventId,
             PreviousAlertId = PreviousAlertId,
+            PValue = PValue,
+            Alpha = Alpha,
+            Limit = Limit,
         };
     }
 }

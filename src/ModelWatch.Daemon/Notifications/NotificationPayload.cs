@@ -8,7 +8,7 @@ namespace ModelWatch.Daemon.Notifications;
 /// <code>
 /// { "schema": 1, "event": "modelwatch.alert.opened", "event_id": 118, "attempt": 1, "sent_at": "...Z",
 ///   "alert": { "id", "model", "check", "subject", "severity", "state", "statistic", "value", "threshold",
-///              "explanation", "previous_alert", "evidence_url", "at" } }
+///              "explanation", "previous_alert", "evidence_url", "p_value", "alpha", "limit", "at" } }
 /// </code>
 /// </summary>
 public static class NotificationPayload
@@ -56,6 +56,9 @@ public static class NotificationPayload
             }
 
             writer.WriteString("evidence_url", alert.EvidenceUrl);
+            WriteNumber(writer, "p_value", alert.PValue);
+            WriteNumber(writer, "alpha", alert.Alpha);
+            WriteNumber(writer, "limit", alert.Limit);
             writer.WriteString("at", alert.At.ToUniversalTime().ToString("yyyy-MM-dd'T'HH:mm:ss.fff'Z'", System.Globalization.CultureInfo.InvariantCulture));
             writer.WriteEndObject();
             writer.WriteEndObject();

@@ -83,8 +83,8 @@ internal static class AlertTransitions
         string explanation = evidence?.Explanation ?? decision.Reason;
         long eventId = await connection.ExecuteScalarAsync<long>(command(
             NotificationQueue.WithQueuedNotifications("""
-                INSERT INTO modelwatch.alert_event (alert_id, transition, severity, state, run_id, actor, at, statistic, value, threshold, explanation)
-                VALUES (@alertId, @transition, @severity, @state, @runId, @actor, @now, @statistic, @value, @threshold, @explanation)
+                INSERT INTO modelwatch.alert_event (alert_id, transition, severity, state, run_id, actor, at, statistic, value, threshold, p_value, alpha, limit_value, explanation)
+                VALUES (@alertId, @transition, @severity, @state, @runId, @actor, @now, @statistic, @value, @threshold, @pValue, @alpha, @limit, @explanation)
                 """),
             new
             {
@@ -98,12 +98,18 @@ internal static class AlertTransitions
                 statistic = evidence?.Statistic,
                 value = FindingRow.Finite(evidence?.Value),
                 threshold = FindingRow.Finite(evidence?.Threshold),
+                pValue = FindingRow.Finite(evidence?.PValue),
+                alpha = FindingRow.Finite(evidence?.Alpha),
+                limit = FindingRow.Finite(evidence?.Limit),
                 explanation,
             }));
         return new AlertEvent(alertId, transition, model, decision.Check, decision.Subject, severity, state, evidence?.Statistic ?? "none", FindingRow.Finite(evidence?.Value), FindingRow.Finite(evidence?.Threshold), explanation, now)
         {
             EventId = eventId,
             PreviousAlertId = previousAlertId,
+            PValue = FindingRow.Finite(evidence?.PValue),
+            Alpha = FindingRow.Finite(evidence?.Alpha),
+            Limit = FindingRow.Finite(evidence?.Limit),
         };
     }
 

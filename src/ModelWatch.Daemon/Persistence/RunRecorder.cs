@@ -41,10 +41,10 @@ public sealed class RunRecorder(NpgsqlDataSource state, TimeSpan commandTimeout)
     // row, or even per table, was most of the daemon's per-run overhead. Empty arrays simply write nothing.
     private const string WriteResultsSql = """
         WITH findings AS (
-            INSERT INTO modelwatch.finding (run_id, check_name, subject, statistic, value, p_value, threshold, effect_size, severity, explanation, details)
-            SELECT @runId, f.check_name, f.subject, f.statistic, f.value, f.p_value, f.threshold, f.effect_size, f.severity, f.explanation, f.details::jsonb
-              FROM unnest(@checks, @subjects, @statistics, @values, @pValues, @thresholds, @effects, @severities, @explanations, @details)
-                   AS f(check_name, subject, statistic, value, p_value, threshold, effect_size, severity, explanation, details)
+            INSERT INTO modelwatch.finding (run_id, check_name, subject, statistic, value, p_value, threshold, alpha, limit_value, effect_size, severity, explanation, details)
+            SELECT @runId, f.check_name, f.subject, f.statistic, f.value, f.p_value, f.threshold, f.alpha, f.limit_value, f.effect_size, f.severity, f.explanation, f.details::jsonb
+              FROM unnest(@checks, @subjects, @statistics, @values, @pValues, @thresholds, @alphas, @limits, @effects, @severities, @explanations, @details)
+                   AS f(check_name, subject, statistic, value, p_value, threshold, alpha, limit_value, effect_size, severity, explanation, details)
             ON CONFLICT DO NOTHING
         ), check_states AS (
             INSERT INTO modelwatch.check_state (model_key, check_name, subject, state, last_run_id, updated_at)
@@ -107,6 +107,8 @@ public sealed class RunRecorder(NpgsqlDataSource state, TimeSpan commandTimeout)
             values = findings.Select(f => f.Value).ToArray(),
             pValues = findings.Select(f => f.PValue).ToArray(),
             thresholds = findings.Select(f => f.Threshold).ToArray(),
+            alphas = findings.Select(f => f.Alpha).ToArray(),
+            limits = findings.Select(f => f.Limit).ToArray(),
             effects = findings.Select(f => f.EffectSize).ToArray(),
             severities = findings.Select(f => f.Severity).ToArray(),
             explanations = findings.Select(f => f.Explanation).ToArray(),

@@ -82,6 +82,15 @@ public static class TelemetryNames
     /// <summary>Attribute: the threshold it was compared with.</summary>
     public const string ThresholdTag = "modelwatch.threshold";
 
+    /// <summary>Attribute: the evidence's p-value, where the test has one.</summary>
+    public const string PValueTag = "modelwatch.p_value";
+
+    /// <summary>Attribute: the level the p-value was graded at, where there is one.</summary>
+    public const string AlphaTag = "modelwatch.alpha";
+
+    /// <summary>Attribute: the value the statistic was compared with, where there is one.</summary>
+    public const string LimitTag = "modelwatch.limit";
+
     /// <summary>Semantic-convention attribute for the class of a failure.</summary>
     public const string ErrorTypeTag = "error.type";
 }

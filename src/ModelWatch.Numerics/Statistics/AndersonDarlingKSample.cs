@@ -7,6 +7,9 @@ namespace ModelWatch.Numerics.Statistics;
 /// </summary>
 public static class AndersonDarlingKSample
 {
+    /// <summary>The smallest significance level of Scholz &amp; Stephens' table; <see cref="PValue"/> reports it as an upper bound beyond the table.</summary>
+    public const double SmallestTabulatedPValue = 0.001;
+
     /// <summary>Computes the statistic for two or more samples.</summary>
     public static AndersonDarlingResult Compute(IReadOnlyList<IReadOnlyList<double>> samples, bool midrank)
     {
@@ -49,11 +52,33 @@ public static class AndersonDarlingKSample
     /// Approximate p-value of the standardized statistic T for k samples (the table below is typed from memory of
     /// SciPy's source; it reproduces SciPy 1.10.1's p-values for Scholz &amp; Stephens' paper-smoothness example): the quadratic in T fitted to
     /// log(significance) at Scholz &amp; Stephens' (1987) interpolated critical values
-    /// <c>b₀ + b₁/√(k−1) + b₂/(k−1)</c>, the rule SciPy's <c>anderson_ksamp</c> uses (extrapolated beyond 0.001–0.25).
+    /// <c>b₀ + b₁/√(k−1) + b₂/(k−1)</c>, the rule SciPy's <c>anderson_ksamp</c> uses. Below the table (p above 0.25) the
+    /// quadratic is extrapolated; from its largest critical value on the answer is 0.001, an upper bound
+    /// (<see cref="SmallestTabulatedPValue"/>, SciPy's floor too): the fitted quadratic turns upward near T = 28 for two
+    /// samples and would report a p-value of 1 for an enormous T, and for k ≥ 3 it dips just below 0.001 at the table's end.
     /// </summary>
     public static double PValue(double standardized, int sampleCount)
     {
         ArgumentOutOfRangeException.ThrowIfLessThan(sampleCount, 2);
+        if (standardized > LargestCriticalValue(sampleCount))
+        {
+            return SmallestTabulatedPValue;
+        }
+
+        return Math.Max(SmallestTabulatedPValue, InterpolatedPValue(standardized, sampleCount));
+    }
+
+    /// <summary>True when T lies beyond the table's largest critical value, so <see cref="PValue"/> is an upper bound.</summary>
+    public static bool BeyondTable(double standardized, int sampleCount) => standardized > LargestCriticalValue(sampleCount);
+
+    private static double LargestCriticalValue(int sampleCount)
+    {
+        double m = sampleCount - 1;
+        return 3.085 + (3.615 / Math.Sqrt(m)) + (-0.154 / m);
+    }
+
+    private static double InterpolatedPValue(double standardized, int sampleCount)
+    {
         double[] b0 = [0.675, 1.281, 1.645, 1.96, 2.326, 2.573, 3.085];
         double[] b1 = [-0.245, 0.25, 0.678, 1.149, 1.822, 2.364, 3.615];
         double[] b2 = [-0.105, -0.305, -0.362, -0.391, -0.396, -0.345, -0.154];

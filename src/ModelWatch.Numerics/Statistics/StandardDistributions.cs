@@ -92,6 +92,42 @@ public static class StandardDistributions
         Distributions.TailProbability.FisherUpper(f, numeratorDf, denominatorDf);
 
     /// <summary>
+    /// The f with <c>P(F(d1, d2) ≥ f) = upperTail</c>: bisection on the incomplete beta function's argument, which the
+    /// upper tail is monotone in, so budgeted levels far below 1e-5 keep their digits.
+    /// </summary>
+    public static double FisherUpperQuantile(double upperTail, double numeratorDf, double denominatorDf)
+    {
+        if (!(upperTail > 0.0 && upperTail < 1.0) || !(numeratorDf > 0) || !(denominatorDf > 0))
+        {
+            return double.NaN;
+        }
+
+        // P(F ≥ f) = I_x(d2/2, d1/2) with x = d2/(d2 + d1·f), increasing in x.
+        double low = 0.0;
+        double high = 1.0;
+        // Twelve significant digits of x are more than a printed critical value needs, and about 50 steps.
+        for (int i = 0; i < 200 && high - low > 1e-12 * high; i++)
+        {
+            double mid = 0.5 * (low + high);
+            if (SpecialFunctions.BetaRegularized(denominatorDf / 2.0, numeratorDf / 2.0, mid) < upperTail)
+            {
+                low = mid;
+            }
+            else
+            {
+                high = mid;
+            }
+        }
+
+        double x = 0.5 * (low + high);
+        return denominatorDf * (1.0 - x) / (numeratorDf * x);
+    }
+
+    /// <summary>The t with <c>P(|T_df| ≥ t) = twoSided</c>, from the F(1, df) quantile (T² ~ F(1, df)).</summary>
+    public static double StudentTTwoSidedQuantile(double twoSided, double degreesOfFreedom) =>
+        Math.Sqrt(FisherUpperQuantile(twoSided, 1.0, degreesOfFreedom));
+
+    /// <summary>
     /// Converts a Student t statistic to the standard normal score with the same lower-tail probability,
     /// so per-run statistics on different degrees of freedom can feed one CUSUM.
     /// </summary>

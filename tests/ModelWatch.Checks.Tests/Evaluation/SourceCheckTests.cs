@@ -40,7 +40,7 @@ public sealed class SourceCheckTests
         Assert.False(last!.RequiresPersistence);
         Assert.Equal("failed_runs", last.Statistic);
         Assert.Equal(3.0, last.Value);
-        Assert.Equal("3 runs in a row failed since 2026-03-01T00:00:00Z; model shop-basket is not being watched; last error: relation \"orders\" does not exist", last.Explanation);
+        Assert.Equal("3 runs in a row failed since 2026-03-01T00:00:00Z; model shop-basket is not being watched (alert at 3 failed runs); last error: relation \"orders\" does not exist", last.Explanation);
 
         // The first run that reads its window clears the count and resolves the alert at once (no hysteresis for a fault).
         var model = new SyntheticModel(seed: 7, features: 2);
@@ -48,7 +48,7 @@ public sealed class SourceCheckTests
         CheckResult ok = SourceCheck.Instance.Run(new CheckInput { Baseline = baseline, Window = model.Window(baseline, 50), WindowStart = Start.AddHours(2), WindowEnd = Start.AddHours(3), State = state, Thresholds = thresholds, NewestRowTime = Start.AddHours(3).AddMinutes(-4) });
         (_, _, AlertDecision resolved) = Decide(ok, policy, thresholds);
         Assert.Equal(Severity.Ok, ok.Findings.Single().Severity);
-        Assert.Equal("the run read its window; it read its window again after 3 failed run(s)", ok.Findings.Single().Explanation);
+        Assert.Equal("the run read its window: 0 failed runs in a row (alert at 3); it read its window again after 3 failed run(s)", ok.Findings.Single().Explanation);
         Assert.Equal(AlertAction.Resolve, resolved.Action);
         Assert.Equal(0, SourceCheck.Recall(ok.State).ConsecutiveFailures);
         Assert.Equal(4.0 / 60, ok.Findings.Single().Details["data_age_hours"], 12);

@@ -142,8 +142,7 @@ public sealed class AlertAndRunCommandTests(PostgresDatabase database) : IClassF
         Assert.Equal(ExitCodes.Usage, both.ExitCode);
         Assert.Equal(ExitCodes.Usage, badLength.ExitCode);
         Assert.Equal(ExitCodes.RuntimeError, unknownModel.ExitCode);
-        Assert.Contains("no model 'florist-minute'", unknownModel.Error, StringComparison.Ordinal);
-        Assert.Contains("florist-minutes", unknownModel.Error, StringComparison.Ordinal);
+        Assert.Contains("no model 'florist-minute'; did you mean 'florist-minutes'?", unknownModel.Error, StringComparison.Ordinal);
         Assert.Equal(ExitCodes.RuntimeError, unknownCheck.ExitCode);
         Assert.Contains("no check 'feature'; the checks are source, data, serving, coefficients, collinearity, residuals, error, features", unknownCheck.Error, StringComparison.Ordinal);
         Assert.Equal(0, ok.ExitCode);

@@ -52,7 +52,7 @@ public sealed class BacktestCommandTests(PostgresDatabase database) : IClassFixt
         Assert.Equal("2026-02-02T00:00:00Z", windows[0].GetProperty("end").GetString());
         Assert.All(windows, w => Assert.Equal("ok", w.GetProperty("status").GetString()));
         JsonElement finding = windows.SelectMany(w => w.GetProperty("findings").EnumerateArray()).First();
-        Assert.Equal(["check", "subject", "severity", "statistic", "value", "threshold"], Names(finding));
+        Assert.Equal(["check", "subject", "severity", "statistic", "value", "threshold", "p_value", "alpha", "limit", "explanation"], Names(finding));
         Assert.All(json.RootElement.GetProperty("alerts").EnumerateArray(), a => Assert.Equal(["check", "subject", "severity", "opened_at", "resolved_at"], Names(a)));
     }
 
@@ -110,7 +110,7 @@ public sealed class BacktestCommandTests(PostgresDatabase database) : IClassFixt
         CliRun run = await LaundryScenario.Cli(database, "backtest", "no-such-model", "--from", "2026-02-02T00:00:00Z", "--to", "2026-02-02T23:00:00Z");
 
         Assert.Equal(ExitCodes.RuntimeError, run.ExitCode);
-        Assert.Contains("modelwatch backtest: model no-such-model is not registered", run.Error, StringComparison.Ordinal);
+        Assert.Contains("modelwatch backtest: no model 'no-such-model'", run.Error, StringComparison.Ordinal);
     }
 
     private Task<CliRun> Backtest(params string[] extra) =>

@@ -34,7 +34,22 @@ public sealed class CheckCommandTests(PostgresDatabase database) : IClassFixture
         Assert.Equal(JsonValueKind.Null, root.GetProperty("reason").ValueKind);
         Assert.Equal(24, root.GetProperty("rows").GetInt64());
         JsonElement[] findings = [.. root.GetProperty("findings").EnumerateArray()];
-        Assert.All(findings, f => Assert.Equal(["check", "subject", "severity", "statistic", "value", "threshold"], Names(f)));
+        Assert.All(findings, f => Assert.Equal(["check", "subject", "severity", "statistic", "value", "threshold", "p_value", "alpha", "limit", "explanation"], Names(f)));
+
+        // threshold is the alpha where a p-value graded the finding, else the limit; levels and p-values are probabilities.
+        Assert.All(findings, f =>
+        {
+            double? alpha = Number(f, "alpha");
+            Assert.Equal(alpha ?? Number(f, "limit"), Number(f, "threshold"));
+            Assert.True(alpha is null or (> 0 and < 1), f.ToString());
+            Assert.True(Number(f, "p_value") is null or (>= 0 and <= 1), f.ToString());
+            Assert.True(alpha is null || Number(f, "p_value") is not null, f.ToString());
+        });
+        JsonElement wald = findings.Single(f => f.GetProperty("statistic").GetString() == "wald");
+        Assert.NotNull(Number(wald, "alpha"));
+        Assert.True(Number(wald, "value") > Number(wald, "limit"), wald.ToString());
+        Assert.True(Number(wald, "p_value") < Number(wald, "alpha"), wald.ToString());
+        Assert.Contains(findings, f => f.GetProperty("statistic").GetString() == "cusum" && Number(f, "alpha") is null && Number(f, "limit") > 0);
         Assert.Contains(findings, f => f.GetProperty("check").GetString() == "coefficients" && f.GetProperty("severity").GetString() == "critical");
         Assert.Contains(findings, f => f.GetProperty("subject").ValueKind == JsonValueKind.Null);
         Assert.All(findings, f => Assert.Contains(f.GetProperty("severity").GetString(), new[] { "ok", "warning", "critical" }));
@@ -105,7 +120,7 @@ public sealed class CheckCommandTests(PostgresDatabase database) : IClassFixture
         CliRun run = await LaundryScenario.Cli(database, "check", "no-such-model", "--at", "2026-02-02T15:00:00Z");
 
         Assert.Equal(ExitCodes.RuntimeError, run.ExitCode);
-        Assert.Contains("modelwatch check: model no-such-model is not registered", run.Error, StringComparison.Ordinal);
+        Assert.Contains("modelwatch check: no model 'no-such-model'", run.Error, StringComparison.Ordinal);
     }
 
     [Theory]
@@ -118,6 +133,9 @@ public sealed class CheckCommandTests(PostgresDatabase database) : IClassFixture
         Assert.Equal(ExitCodes.Usage, run.ExitCode);
         Assert.Contains(message, run.Error, StringComparison.Ordinal);
     }
+
+    private static double? Number(JsonElement finding, string name) =>
+        finding.GetProperty(name).ValueKind == JsonValueKind.Null ? null : finding.GetProperty(name).GetDouble();
 
     private Task<CliRun> Check(params string[] extra) => LaundryScenario.Cli(database, ["check", LaundryScenario.Key, .. extra]);
 

@@ -46,6 +46,8 @@ public sealed class AlertIdentityTests(PostgresDatabase database) : IClassFixtur
         AlertView view = (await alerts.GetAsync(reopened.AlertId, CancellationToken.None))!;
         Assert.Equal(opened.AlertId, view.PreviousAlertId);
         Assert.Equal("critical", view.OpeningSeverity);
+        Assert.Equal(1e-4, view.OpeningAlpha);
+        Assert.Equal(1e-9, view.OpeningPValue);
         Assert.Equal(["opened"], (await alerts.HistoryAsync(reopened.AlertId, CancellationToken.None)).Select(h => h.Transition));
 
         // The old alert keeps its own history: opened, then resolved; it is never rewritten.
@@ -67,7 +69,7 @@ public sealed class AlertIdentityTests(PostgresDatabase database) : IClassFixtur
             Statistic = "wald",
             Value = severity == Severity.Critical ? 48.2 : 1.1,
             PValue = severity == Severity.Critical ? 1e-9 : 0.58,
-            Threshold = 1e-4,
+            Alpha = 1e-4,
             Severity = severity,
             RequiresPersistence = false,
             Explanation = severity == Severity.Critical ? "coefficients moved" : "coefficients as at baseline",

@@ -58,7 +58,7 @@ public sealed class BaselineActivationTests(PostgresDatabase database) : IClassF
         {
             Check = CheckNames.Features,
             State = new CheckState(),
-            Findings = [new Finding { Check = CheckNames.Features, Subject = "stops", Statistic = "psi", Severity = Severity.Critical, RequiresPersistence = false, Value = 0.4, Threshold = 0.25, Explanation = "PSI of stops" }],
+            Findings = [new Finding { Check = CheckNames.Features, Subject = "stops", Statistic = "psi", Severity = Severity.Critical, RequiresPersistence = false, Value = 0.4, Limit = 0.25, Explanation = "PSI of stops" }],
         };
         IReadOnlyList<AlertDecision> decisions = AlertPolicy.Evaluate([result], [], "fingerprint-1", new CheckThresholds());
         RecordedRun recorded = await DaemonTestData.RecordUnderLeaseAsync(database, "parcels-superseded", slot, [result], decisions);

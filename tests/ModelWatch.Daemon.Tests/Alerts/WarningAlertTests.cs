@@ -30,7 +30,7 @@ public sealed class WarningAlertTests(PostgresDatabase database) : IClassFixture
             {
                 Check = CheckNames.Residuals,
                 State = new CheckState(),
-                Findings = [new Finding { Check = CheckNames.Residuals, Statistic = "brown_forsythe", Severity = windows[i], Value = 4.2 + i, Threshold = 0.01, Explanation = $"window {i + 1}" }],
+                Findings = [new Finding { Check = CheckNames.Residuals, Statistic = "brown_forsythe", Severity = windows[i], Value = 4.2 + i, Alpha = 0.01, Explanation = $"window {i + 1}" }],
             };
             IReadOnlyList<AlertDecision> decisions = AlertPolicy.Evaluate([result], states, "fingerprint-1", thresholds);
             states = [.. decisions.Select(d => d.State)];

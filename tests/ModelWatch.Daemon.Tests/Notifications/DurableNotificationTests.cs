@@ -28,7 +28,7 @@ public sealed class DurableNotificationTests(PostgresDatabase database) : IClass
         {
             Check = CheckNames.Features,
             State = new CheckState(),
-            Findings = [.. new[] { "distance_km", "stops", "load_kg" }.Select(f => new Finding { Check = CheckNames.Features, Subject = f, Statistic = "psi", Severity = Severity.Critical, RequiresPersistence = false, Value = 0.4, Threshold = 0.25, Explanation = "PSI of " + f })],
+            Findings = [.. new[] { "distance_km", "stops", "load_kg" }.Select(f => new Finding { Check = CheckNames.Features, Subject = f, Statistic = "psi", Severity = Severity.Critical, RequiresPersistence = false, Value = 0.4, PValue = 1e-12, Alpha = 1.5e-6, Limit = 0.25, Explanation = "PSI of " + f })],
         };
         IReadOnlyList<AlertDecision> decisions = AlertPolicy.Evaluate([result], [], "fingerprint-1", new CheckThresholds());
         RecordedRun recorded = await DaemonTestData.RecordUnderLeaseAsync(database, "parcels-queued", slot, [result], decisions);
@@ -57,6 +57,15 @@ public sealed class DurableNotificationTests(PostgresDatabase database) : IClass
         Assert.Equal(4, events.Select(e => e.GetProperty("event_id").GetInt64()).Distinct().Count());
         Assert.Equal(3, events.Count(e => e.GetProperty("event").GetString() == "modelwatch.alert.opened"));
         Assert.Single(events, e => e.GetProperty("event").GetString() == "modelwatch.alert.acknowledged");
+
+        // An opened alert carries its evidence's p-value, the alpha it was graded at and the PSI cut-off, as recorded.
+        Assert.All(events.Where(e => e.GetProperty("event").GetString() == "modelwatch.alert.opened").Select(e => e.GetProperty("alert")), a =>
+        {
+            Assert.Equal(1e-12, a.GetProperty("p_value").GetDouble());
+            Assert.Equal(1.5e-6, a.GetProperty("alpha").GetDouble());
+            Assert.Equal(0.25, a.GetProperty("limit").GetDouble());
+            Assert.Equal(1.5e-6, a.GetProperty("threshold").GetDouble());
+        });
         Assert.Equal(0, await DaemonTestData.ScalarAsync(database.DataSource, Pending));
         IReadOnlyList<AlertHistoryEntry> history = await alerts.HistoryAsync(recorded.Transitions[0].AlertId, CancellationToken.None);
         Assert.All(history, h => Assert.Equal(("channel", "delivered", 1), Assert.Single(h.Notifications) is var n ? (n.Target, n.State, n.Attempts) : default));

@@ -11,8 +11,14 @@ public sealed class WebhookSenderTests
     private const string Secret = "a-shared-secret-of-some-length";
 
     private static readonly AlertEvent Opened = new(
-        42, "opened", "courier-eta", "coefficients", "route_km", "critical", "open", "wald_chi2", 61.3, 24.1,
-        "coefficient of route_km moved from 1.92 to 2.41: 6.3 standard errors", new DateTimeOffset(2026, 11, 30, 6, 0, 0, TimeSpan.Zero));
+        42, "opened", "courier-eta", "coefficients", "route_km", "critical", "open", "z", 6.3, 6.0e-6,
+        "coefficient of route_km moved from 1.92 to 2.41: z = 6.3 standard errors (Holm's critical |z| at its step 4.81), p = 3.0e-10 after Holm, α 6.0e-6",
+        new DateTimeOffset(2026, 11, 30, 6, 0, 0, TimeSpan.Zero))
+    {
+        PValue = 3.0e-10,
+        Alpha = 6.0e-6,
+        Limit = 4.81,
+    };
 
     [Fact]
     public async Task Delivers_a_signed_payload_that_the_receiver_can_verify()
@@ -33,7 +39,12 @@ public sealed class WebhookSenderTests
         using var json = JsonDocument.Parse(received.Body);
         Assert.Equal("modelwatch.alert.opened", json.RootElement.GetProperty("event").GetString());
         Assert.Equal("route_km", json.RootElement.GetProperty("alert").GetProperty("subject").GetString());
-        Assert.Equal(61.3, json.RootElement.GetProperty("alert").GetProperty("value").GetDouble());
+        JsonElement alert = json.RootElement.GetProperty("alert");
+        Assert.Equal(6.3, alert.GetProperty("value").GetDouble());
+        Assert.Equal(6.0e-6, alert.GetProperty("threshold").GetDouble());
+        Assert.Equal(3.0e-10, alert.GetProperty("p_value").GetDouble());
+        Assert.Equal(6.0e-6, alert.GetProperty("alpha").GetDouble());
+        Assert.Equal(4.81, alert.GetProperty("limit").GetDouble());
     }
 
     [Fact]

@@ -48,7 +48,7 @@ public sealed class FaultToleranceTests(PostgresDatabase database) : IClassFixtu
               FROM modelwatch.alert_event e JOIN modelwatch.run r ON r.id = e.run_id
              WHERE e.transition = 'opened' AND r.model_key = 'broken-sql'
                AND r.slot = (SELECT min(slot) FROM modelwatch.run WHERE model_key = 'broken-sql') + interval '2 hours'
-               AND e.explanation LIKE '3 runs in a row failed since %; model broken-sql is not being watched; last error: %shipments_gone%'
+               AND e.explanation LIKE '3 runs in a row failed since %; model broken-sql is not being watched (alert at %); last error: %shipments_gone%'
                AND e.statistic = 'failed_runs' AND e.value = 3 AND e.threshold = 3
             """));
         Assert.Equal(4, await DaemonTestData.ScalarAsync(database.DataSource, "SELECT count(*) FROM modelwatch.finding f JOIN modelwatch.run r ON r.id = f.run_id WHERE r.model_key = 'broken-sql' AND f.check_name = 'source'"));

@@ -98,7 +98,13 @@ public sealed class ModelWatchMetricsTests
         using var pipeline = new AlertEventPipeline(o => o.AddInMemoryExporter(records), ordinary);
         var events = new AlertEventLogger(pipeline.Factory.CreateLogger<AlertEventLogger>());
 
-        events.Publish(new AlertEvent(7, "opened", "gauge-courier", "residuals", null, "warning", "open", "bias_t", -4.47, 3.9, "mean residual −95.5", DateTimeOffset.UnixEpoch));
+        events.Publish(new AlertEvent(7, "opened", "gauge-courier", "residuals", null, "warning", "open", "bias_t", -4.47, 3.9, "mean residual −95.5", DateTimeOffset.UnixEpoch)
+        {
+            PValue = 1e-5,
+            Alpha = 6e-6,
+            Limit = 3.9,
+            PreviousAlertId = 4,
+        });
 
         LogRecord record = Assert.Single(records);
         Assert.Equal("modelwatch.alert.opened", record.EventId.Name);
@@ -109,6 +115,11 @@ public sealed class ModelWatchMetricsTests
         Assert.Equal("bias_t", attributes[TelemetryNames.StatisticTag]);
         Assert.Equal(-4.47, attributes[TelemetryNames.ValueTag]);
         Assert.Equal(3.9, attributes[TelemetryNames.ThresholdTag]);
+        Assert.Equal(1e-5, attributes[TelemetryNames.PValueTag]);
+        Assert.Equal(6e-6, attributes[TelemetryNames.AlphaTag]);
+        Assert.Equal(3.9, attributes[TelemetryNames.LimitTag]);
+        Assert.Equal(4L, attributes["modelwatch.alert.previous_id"]);
+        Assert.Contains("(again, after #4)", record.FormattedMessage ?? record.Body, StringComparison.Ordinal);
     }
 
     /// <summary>

@@ -35,4 +35,22 @@ public sealed class AndersonDarlingKSampleTests
         // p = 0.002225 with SciPy 1.10.1 (statistics-py.out); the paper gives p ≈ 0.0022.
         Assert.Equal(0.002225, AndersonDarlingKSample.PValue(result.Standardized, 4), 6);
     }
+
+    [Theory]
+    [InlineData(2)]
+    [InlineData(4)]
+    public void Beyond_the_table_the_p_value_is_its_smallest_level_and_never_rises_again(int samples)
+    {
+        // The quadratic fitted to Scholz & Stephens' table turns upward near T = 28 (k = 2): extrapolated, T = 199 gave p = 1.
+        double[] t = [3.0, 5.0, 6.0, 7.0, 10.0, 28.0, 50.0, 199.0, 1e6];
+        double[] p = [.. t.Select(x => AndersonDarlingKSample.PValue(x, samples))];
+        for (int i = 1; i < p.Length; i++)
+        {
+            Assert.True(p[i] <= p[i - 1], "p rose between T = " + t[i - 1] + " and " + t[i]);
+        }
+
+        Assert.Equal(AndersonDarlingKSample.SmallestTabulatedPValue, AndersonDarlingKSample.PValue(199.0, samples));
+        Assert.True(AndersonDarlingKSample.BeyondTable(199.0, samples));
+        Assert.False(AndersonDarlingKSample.BeyondTable(3.0, samples));
+    }
 }

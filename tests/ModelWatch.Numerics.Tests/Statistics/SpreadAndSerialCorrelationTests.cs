@@ -77,6 +77,20 @@ public sealed class SpreadAndSerialCorrelationTests
         Assert.Equal(21.666, StandardDistributions.ChiSquareUpperQuantile(0.01, 9), 3);
         Assert.Equal(0.0455, (1.0 / 10000 + 1.0 / 500) * StandardDistributions.ChiSquareUpperQuantile(0.01, 9), 4);
         Assert.Equal(1e-6, StandardDistributions.ChiSquareUpperTail(StandardDistributions.ChiSquareUpperQuantile(1e-6, 6), 6), 12);
+
+        // F and t points from Abramowitz & Stegun (1964), Tables 26.9 and 26.10: F(5, 10) 95 % point 3.33, F(1, 10) 99 %
+        // point 10.04, two-sided t₁₀ 5 % point 2.228; a budgeted level of 1e-7 inverts to its own digits.
+        Assert.Equal(3.33, StandardDistributions.FisherUpperQuantile(0.05, 5, 10), 2);
+        Assert.Equal(10.04, StandardDistributions.FisherUpperQuantile(0.01, 1, 10), 2);
+        Assert.Equal(2.228, StandardDistributions.StudentTTwoSidedQuantile(0.05, 10), 3);
+        double f = StandardDistributions.FisherUpperQuantile(1e-7, 4, 50);
+        Assert.Equal(1.0, StandardDistributions.FisherUpper(f, 4, 50) / 1e-7, 9);
+        Assert.True(double.IsNaN(StandardDistributions.FisherUpperQuantile(0.0, 4, 50)));
+
+        // A Chow predictive test on a million new rows against a million reference rows: F stays near 1.
+        double large = StandardDistributions.FisherUpperQuantile(6e-6, 1e6, 1e6);
+        Assert.InRange(large, 1.005, 1.02);
+        Assert.Equal(1.0, StandardDistributions.FisherUpper(large, 1e6, 1e6) / 6e-6, 6);
     }
 
     [Fact]
