@@ -20,7 +20,8 @@ internal static class ExplainCommand
         var command = new Command("explain", "Show the evidence behind an alert (or, with --run, a run): what moved, the error decomposition, the features involved, the runbook") { id, run, html, database };
         command.Validators.Add(result =>
         {
-            bool hasAlert = result.GetValue(id) is not null, hasRun = result.GetValue(run) is not null;
+            // Count the tokens rather than read the values: a value that does not parse already has its own error.
+            bool hasAlert = result.GetResult(id) is { Tokens.Count: > 0 }, hasRun = result.GetResult(run) is { Tokens.Count: > 0 };
             if (hasAlert == hasRun)
             {
                 result.AddError(hasAlert ? "give an alert id or --run RUN_ID, not both" : "give an alert id, or --run RUN_ID for a run");

@@ -57,7 +57,7 @@ public sealed class ParseErrorTests
 
     [Theory]
     [InlineData("runs list --format yaml", "modelwatch: --format: 'yaml' is not one of table, json")]
-    [InlineData("explain abc", "modelwatch: 'abc' is not an alert id or a run id (a whole number)")]
+    [InlineData("explain abc", "modelwatch: 'abc' is not the alert's id (a whole number)")]
     [InlineData("alerts show 12x", "modelwatch: '12x' is not an alert id (a whole number)")]
     [InlineData("runs list --limit many", "modelwatch: --limit: 'many' is not a whole number")]
     [InlineData("runs list --limit 99999999999", "modelwatch: --limit: '99999999999' is out of range (-2147483648 to 2147483647)")]
