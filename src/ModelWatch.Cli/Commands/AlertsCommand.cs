@@ -243,21 +243,13 @@ internal static class AlertsCommand
         writer.WriteStartObject("opening");
         writer.WriteString("severity", alert.OpeningSeverity);
         writer.WriteString("statistic", alert.OpeningStatistic);
-        JsonNumbers.Write(writer, "value", alert.OpeningValue);
-        JsonNumbers.Write(writer, "threshold", alert.OpeningThreshold);
-        JsonNumbers.Write(writer, "p_value", alert.OpeningPValue);
-        JsonNumbers.Write(writer, "alpha", alert.OpeningAlpha);
-        JsonNumbers.Write(writer, "limit", alert.OpeningLimit);
+        JsonNumbers.WriteTest(writer, alert.OpeningValue, alert.OpeningThreshold, alert.OpeningPValue, alert.OpeningAlpha, alert.OpeningLimit);
         writer.WriteString("explanation", alert.OpeningExplanation);
         writer.WriteEndObject();
         writer.WriteStartObject("latest");
         writer.WriteString("severity", alert.LatestSeverity);
         writer.WriteString("statistic", alert.Statistic);
-        JsonNumbers.Write(writer, "value", alert.Value);
-        JsonNumbers.Write(writer, "threshold", alert.Threshold);
-        JsonNumbers.Write(writer, "p_value", alert.PValue);
-        JsonNumbers.Write(writer, "alpha", alert.Alpha);
-        JsonNumbers.Write(writer, "limit", alert.Limit);
+        JsonNumbers.WriteTest(writer, alert.Value, alert.Threshold, alert.PValue, alert.Alpha, alert.Limit);
         writer.WriteString("explanation", alert.Explanation);
         writer.WriteEndObject();
 
@@ -279,11 +271,7 @@ internal static class AlertsCommand
                 writer.WriteString("actor", entry.Actor);
                 CliJson.WriteTime(writer, "at", entry.At);
                 writer.WriteString("statistic", entry.Statistic);
-                JsonNumbers.Write(writer, "value", entry.Value);
-                JsonNumbers.Write(writer, "threshold", entry.Threshold);
-                JsonNumbers.Write(writer, "p_value", entry.PValue);
-                JsonNumbers.Write(writer, "alpha", entry.Alpha);
-                JsonNumbers.Write(writer, "limit", entry.Limit);
+                JsonNumbers.WriteTest(writer, entry.Value, entry.Threshold, entry.PValue, entry.Alpha, entry.Limit);
                 writer.WriteString("explanation", entry.Explanation);
                 writer.WriteStartArray("notifications");
                 foreach (NotificationStatus notification in entry.Notifications)

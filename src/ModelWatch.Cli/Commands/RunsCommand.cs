@@ -108,11 +108,7 @@ internal static class RunsCommand
             writer.WriteString("severity", f.SkipReason is null ? f.Severity : "skipped");
             writer.WriteString("skip_reason", f.SkipReason);
             writer.WriteString("statistic", f.Statistic);
-            JsonNumbers.Write(writer, "value", f.Value);
-            JsonNumbers.Write(writer, "threshold", f.Threshold);
-            JsonNumbers.Write(writer, "p_value", f.PValue);
-            JsonNumbers.Write(writer, "alpha", f.Alpha);
-            JsonNumbers.Write(writer, "limit", f.Limit);
+            JsonNumbers.WriteTest(writer, f.Value, f.Threshold, f.PValue, f.Alpha, f.Limit);
             JsonNumbers.Write(writer, "effect_size", f.EffectSize);
             writer.WriteString("explanation", f.Explanation);
             writer.WriteEndObject();

@@ -49,11 +49,7 @@ internal sealed record FindingLine(string Check, string? Subject, Severity Sever
             writer.WriteString("subject", line.Subject);
             writer.WriteString("severity", line.SeverityName);
             writer.WriteString("statistic", line.Statistic);
-            JsonNumbers.Write(writer, "value", line.Value);
-            JsonNumbers.Write(writer, "threshold", line.Threshold);
-            JsonNumbers.Write(writer, "p_value", line.PValue);
-            JsonNumbers.Write(writer, "alpha", line.Alpha);
-            JsonNumbers.Write(writer, "limit", line.Limit);
+            JsonNumbers.WriteTest(writer, line.Value, line.Threshold, line.PValue, line.Alpha, line.Limit);
             writer.WriteString("explanation", line.Explanation);
             writer.WriteEndObject();
         }

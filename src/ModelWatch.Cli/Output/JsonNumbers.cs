@@ -35,4 +35,17 @@ internal static class JsonNumbers
             writer.WriteNull(name);
         }
     }
+
+    /// <summary>
+    /// A test's numbers in the documented order and meaning (docs/checks.md, <i>Finding fields</i>): <c>value</c>,
+    /// <c>threshold</c>, <c>p_value</c>, <c>alpha</c>, <c>limit</c>; every command that prints a finding writes them here.
+    /// </summary>
+    public static void WriteTest(Utf8JsonWriter writer, double? value, double? threshold, double? pValue, double? alpha, double? limit)
+    {
+        Write(writer, "value", value);
+        Write(writer, "threshold", threshold);
+        Write(writer, "p_value", pValue);
+        Write(writer, "alpha", alpha);
+        Write(writer, "limit", limit);
+    }
 }

@@ -68,41 +68,27 @@ internal sealed class EvidenceRepository(NpgsqlDataSource state, TimeSpan comman
         }
 
         long[] ids = [.. runs.Select(r => r.Id)];
-        IEnumerable<EvidenceFindingRow> findings = await connection.QueryAsync<EvidenceFindingRow>(Command(
-            """
-            SELECT run_id AS RunId, check_name AS Check, subject AS Subject, statistic AS Statistic, value AS Value, p_value AS PValue,
-                   threshold AS Threshold, effect_size AS EffectSize, severity AS Severity, explanation AS Explanation, details::text AS Details
-              FROM modelwatch.finding
-             WHERE run_id = ANY(@ids)
-             ORDER BY id
-            """, new { ids }, cancellationToken));
+        IEnumerable<FindingView> findings = await connection.QueryAsync<FindingView>(Command(
+            $"SELECT {FindingView.Columns} FROM modelwatch.finding WHERE run_id = ANY(@ids) ORDER BY id", new { ids }, cancellationToken));
         ILookup<long, EvidenceFinding> byRun = findings.Select(ToFinding).ToLookup(f => f.RunId);
         return [.. runs.OrderBy(r => r.Slot).ThenBy(r => r.Id).Select(r => new EvidenceRun(
             r.Id, Utc(r.Slot), r.WindowStart is { } s ? Utc(s) : null, r.WindowEnd is { } e ? Utc(e) : null,
             r.Status, r.Reason, r.BaselineVersion, r.RowsRead, [.. byRun[r.Id]]))];
     }
 
-    private static EvidenceFinding ToFinding(EvidenceFindingRow row)
+    private static EvidenceFinding ToFinding(FindingView row)
     {
         var details = new Dictionary<string, double>(StringComparer.Ordinal);
-        string? skipped = null;
         using (JsonDocument document = JsonDocument.Parse(row.Details))
         {
-            foreach (JsonProperty property in document.RootElement.EnumerateObject())
+            foreach (JsonProperty property in document.RootElement.EnumerateObject().Where(p => p.Value.ValueKind == JsonValueKind.Number))
             {
-                if (property.Value.ValueKind == JsonValueKind.Number)
-                {
-                    details[property.Name] = property.Value.GetDouble();
-                }
-                else if (property.Name == "skipped" && property.Value.ValueKind == JsonValueKind.String)
-                {
-                    skipped = property.Value.GetString();
-                }
+                details[property.Name] = property.Value.GetDouble();
             }
         }
 
         return new EvidenceFinding(row.RunId, row.Check, row.Subject, row.Statistic, row.Value, row.PValue, row.Threshold, row.EffectSize,
-            row.Severity, row.Explanation, details, skipped);
+            row.Severity, row.Explanation, details, row.SkipReason);
     }
 
     private static DateTimeOffset Utc(DateTime value) => new(DateTime.SpecifyKind(value, DateTimeKind.Utc));

@@ -3,6 +3,13 @@ namespace ModelWatch.Daemon.Persistence;
 /// <summary>A recorded finding as operators read it back (<c>modelwatch.finding</c>).</summary>
 public sealed class FindingView
 {
+    /// <summary>The select list that fills this class from <c>modelwatch.finding</c>.</summary>
+    internal const string Columns = """
+        run_id AS RunId, check_name AS Check, subject AS Subject, statistic AS Statistic, value AS Value, p_value AS PValue,
+        threshold AS Threshold, alpha AS Alpha, limit_value AS Limit, effect_size AS EffectSize, severity AS Severity,
+        details ->> 'skipped' AS SkipReason, explanation AS Explanation, details::text AS Details
+        """;
+
     /// <summary>The run that recorded it.</summary>
     public long RunId { get; set; }
 

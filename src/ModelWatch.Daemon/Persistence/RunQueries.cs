@@ -46,14 +46,7 @@ public sealed class RunQueries(NpgsqlDataSource state, TimeSpan commandTimeout)
     {
         await using NpgsqlConnection connection = await state.OpenConnectionAsync(cancellationToken);
         var rows = await connection.QueryAsync<FindingView>(new CommandDefinition(
-            """
-            SELECT run_id AS RunId, check_name AS Check, subject AS Subject, statistic AS Statistic, value AS Value, p_value AS PValue,
-                   threshold AS Threshold, alpha AS Alpha, limit_value AS Limit, effect_size AS EffectSize, severity AS Severity,
-                   details ->> 'skipped' AS SkipReason, explanation AS Explanation, details::text AS Details
-              FROM modelwatch.finding
-             WHERE run_id = @runId
-             ORDER BY id
-            """,
+            $"SELECT {FindingView.Columns} FROM modelwatch.finding WHERE run_id = @runId ORDER BY id",
             new { runId },
             commandTimeout: (int)Math.Ceiling(commandTimeout.TotalSeconds),
             cancellationToken: cancellationToken));

@@ -1,4 +1,4 @@
-using System.Diagnostics;
+using ModelWatch.Testing.Browser;
 
 namespace ModelWatch.Daemon.Tests.Http;
 
@@ -20,46 +20,7 @@ internal static class WebBrowser
         Assert.True(File.Exists(png) && new FileInfo(png).Length > 0, "chromium wrote no screenshot: " + error);
     }
 
-    private static async Task<(string Output, string Error)> RunAsync(int? everyHostTo, params string[] args)
-    {
-        string profile = Directory.CreateTempSubdirectory("mw-chromium-").FullName;
-        try
-        {
-            var start = new ProcessStartInfo(ChromiumFactAttribute.Binary) { RedirectStandardOutput = true, RedirectStandardError = true, UseShellExecute = false };
-            foreach (string flag in (string[])["--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--disable-background-networking",
-                         "--no-first-run", "--disable-component-update", "--disable-sync", everyHostTo is { } port ? $"--host-resolver-rules=MAP * 127.0.0.1:{port}" : "--host-resolver-rules=MAP * ~NOTFOUND, EXCLUDE 127.0.0.1",
-                         "--user-data-dir=" + profile])
-            {
-                start.ArgumentList.Add(flag);
-            }
-
-            foreach (string arg in args)
-            {
-                start.ArgumentList.Add(arg);
-            }
-
-            using Process process = Process.Start(start)!;
-            Task<string> output = process.StandardOutput.ReadToEndAsync();
-            Task<string> error = process.StandardError.ReadToEndAsync();
-
-            // A hung browser must not hang the test run; the limit is a safety net, not an assertion about speed.
-            using var limit = new CancellationTokenSource(TimeSpan.FromMinutes(2));
-            try
-            {
-                await process.WaitForExitAsync(limit.Token);
-            }
-            catch (OperationCanceledException)
-            {
-                process.Kill(entireProcessTree: true);
-                throw new TimeoutException("chromium did not finish within two minutes");
-            }
-
-            Assert.True(process.ExitCode == 0, $"chromium exited {process.ExitCode}: {await error}");
-            return (await output, await error);
-        }
-        finally
-        {
-            Directory.Delete(profile, recursive: true);
-        }
-    }
+    private static Task<(string Output, string Error)> RunAsync(int? everyHostTo, params string[] args) =>
+        ChromiumRun.RunAsync(ChromiumFactAttribute.Binary,
+            [everyHostTo is { } port ? $"--host-resolver-rules=MAP * 127.0.0.1:{port}" : "--host-resolver-rules=MAP * ~NOTFOUND, EXCLUDE 127.0.0.1", .. args]);
 }
